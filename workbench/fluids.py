@@ -135,8 +135,8 @@ _PHASE_WORDS = {
     CoolProp.iphase_liquid: "liquid",
     CoolProp.iphase_gas: "gas",
     CoolProp.iphase_supercritical: "supercritical",
-    CoolProp.iphase_supercritical_gas: "supercritical",
-    CoolProp.iphase_supercritical_liquid: "supercritical",
+    CoolProp.iphase_supercritical_gas: "gas",
+    CoolProp.iphase_supercritical_liquid: "liquid",
     CoolProp.iphase_twophase: "two-phase",
     CoolProp.iphase_critical_point: "supercritical",
 }
@@ -337,6 +337,8 @@ class Fluid:
         if self.is_mixture:
             return self._solve_T(P, h, "h", T_guess)
         st = self._flash(CP.HmassP_INPUTS, h, P, f"P={P:.6g} Pa, h={h:.6g} J/kg")
+        if self.backend == "IF97":
+            st = self._if97_exact(P, h, "h", st)
         self._check_temperature(st.T, derived=True)
         return st
 
@@ -346,6 +348,8 @@ class Fluid:
         if self.is_mixture:
             return self._solve_T(P, s, "s", T_guess)
         st = self._flash(CP.PSmass_INPUTS, P, s, f"P={P:.6g} Pa, s={s:.6g} J/(kg K)")
+        if self.backend == "IF97":
+            st = self._if97_exact(P, s, "s", st)
         self._check_temperature(st.T, derived=True)
         return st
 
@@ -459,7 +463,9 @@ class Fluid:
         try:
             st.update(pair, a, b)
             return self._read(st)
-        except (ValueError, RuntimeError) as exc:
+        except PropertyError:
+            raise
+        except Exception as exc:  # the property library raises several kinds of errors
             raise PropertyError(
                 f"the property model could not find a state of {self.name} at {described}; "
                 "the state is probably outside the model's range"
@@ -477,13 +483,46 @@ class Fluid:
             try:
                 cp = st.cpmass()
                 w = st.speed_sound()
-            except (ValueError, RuntimeError):
+            except Exception:
                 cp = w = float("nan")
         else:
             cp = w = float("nan")
         if not all(math.isfinite(v) for v in (P, T, h, s, rho)) or rho <= 0:
             raise PropertyError(f"the property model returned an invalid state of {self.name}")
         return State(self, P, T, h, s, rho, x, cp, w, phase_word)
+
+    def _if97_exact(self, P: float, target: float, prop: str, approx: State) -> State:
+        """Make an IF97 P-h or P-s state consistent with the forward equations.
+
+        The IF97 backward equations T(P, h) and T(P, s) agree with the forward equations only to
+        the release's consistency limits (IAPWS R7-97, about 25 mK), which moves a pump's
+        enthalpy rise by tenths of a percent.  Here the two-phase region is resolved with the
+        saturation states and the lever rule, and single-phase states by Newton iteration on
+        temperature with the forward equations, starting from the backward-equation estimate.
+        """
+        pick = (lambda st: st.h) if prop == "h" else (lambda st: st.s)
+        if P < self.P_critical:
+            liq = self._flash(CP.PQ_INPUTS, P, 0.0, f"saturation at P={P:.6g} Pa")
+            vap = self._flash(CP.PQ_INPUTS, P, 1.0, f"saturation at P={P:.6g} Pa")
+            lo, hi = pick(liq), pick(vap)
+            if lo <= target <= hi:
+                x = (target - lo) / (hi - lo)
+                v = (1 - x) / liq.rho + x / vap.rho
+                return State(self, P, liq.T, liq.h + x * (vap.h - liq.h),
+                             liq.s + x * (vap.s - liq.s), 1.0 / v, x, float("nan"),
+                             float("nan"), "two-phase")
+        st = approx
+        T = st.T
+        for _ in range(20):
+            st = self._flash(CP.PT_INPUTS, P, T, f"P={P:.6g} Pa, T={T:.6g} K")
+            slope = st.cp if prop == "h" else st.cp / st.T
+            if not math.isfinite(slope) or slope <= 0:
+                return approx
+            step = (target - pick(st)) / slope
+            T += step
+            if abs(step) < 1e-10 * T:
+                return self._flash(CP.PT_INPUTS, P, T, f"P={P:.6g} Pa, T={T:.6g} K")
+        return st
 
     def _solve_T(self, P: float, target: float, prop: str, T_guess: float | None) -> State:
         """Mixtures: find T with h(P, T) or s(P, T) equal to target (safeguarded Newton)."""

@@ -396,9 +396,10 @@ def energy_balance(kind: str, inlet: State, outlet: State | None = None, *, P_ou
         raise InputError(
             f"outlet pressure {P2 / 1e5:.6g} bar is not below inlet pressure {P1 / 1e5:.6g} bar: "
             "a turbine lowers pressure")
-    if kind == "pump" and inlet.phase == "gas":
-        raise InputError(f"the pump inlet is {fluid.name} gas at {inlet.T:.5g} K and "
-                         f"{P1 / 1e5:.5g} bar: a pump handles liquid (use a compressor or fan)")
+    if kind == "pump" and inlet.phase in ("gas", "two-phase"):
+        raise InputError(f"the pump inlet is {fluid.name} {inlet.phase} at {inlet.T:.5g} K and "
+                         f"{P1 / 1e5:.5g} bar: a pump needs liquid at its inlet "
+                         "(use a compressor or fan for a gas)")
 
     V1 = _velocity("inlet", v1, d1, m, inlet.rho)
     g_dz = STANDARD_GRAVITY * dz

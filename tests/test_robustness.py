@@ -1,0 +1,80 @@
+"""Property-based checks: random finite inputs never give a stray exception or a NaN.
+
+Every failure must be a WorkbenchError (the project's own, readable message); every success
+must give finite numbers.  Hypothesis draws the inputs.
+"""
+
+import math
+
+import pytest
+from hypothesis import HealthCheck, given, settings
+from hypothesis import strategies as st
+
+import workbench as wb
+
+AIR = wb.Fluid("Air")
+STEAM = wb.Fluid("Water", backend="IF97")
+GAS = wb.Fluid({"Methane": 0.9, "Ethane": 0.07, "Nitrogen": 0.03})
+
+finite = dict(allow_nan=False, allow_infinity=False)
+
+
+def _check(result):
+    for key, value in result.to_dict().items():
+        if isinstance(value, float) and key not in ("isentropic_efficiency_total_to_static",
+                                                    "inlet_quality", "outlet_quality",
+                                                    "isentropic_outlet_quality"):
+            assert math.isfinite(value), key
+
+
+@settings(max_examples=60, deadline=None, suppress_health_check=[HealthCheck.too_slow])
+@given(
+    fluid=st.sampled_from([AIR, STEAM, GAS]),
+    P1=st.floats(-1e5, 3e7, **finite),
+    T1=st.floats(-50.0, 1200.0, **finite),
+    ratio=st.floats(-2.0, 20.0, **finite),
+    eta=st.floats(-0.5, 1.5, **finite),
+    kind=st.sampled_from(["compressor", "turbine", "fan", "pump"]),
+    mode=st.sampled_from(["isentropic", "polytropic", "power"]),
+    velocity=st.floats(-10.0, 400.0, **finite),
+    power=st.floats(-1e6, 1e8, **finite),
+)
+def test_random_machines_fail_cleanly(fluid, P1, T1, ratio, eta, kind, mode, velocity, power):
+    try:
+        inlet = fluid.state(P=P1, T=T1)
+        kwargs = dict(P_out=P1 * ratio, mass_flow=5.0, velocity_out=velocity)
+        if mode == "isentropic":
+            kwargs["isentropic_efficiency"] = eta
+        elif mode == "polytropic":
+            kwargs["polytropic_efficiency"] = eta
+        else:
+            kwargs["power"] = power
+        result = wb.energy_balance(kind, inlet, **kwargs)
+    except wb.WorkbenchError as exc:
+        assert str(exc)
+        return
+    _check(result)
+
+
+@settings(max_examples=40, deadline=None)
+@given(
+    P1=st.floats(1e4, 2e7, **finite),
+    T1=st.floats(200.0, 900.0, **finite),
+    P2=st.floats(1e4, 2e7, **finite),
+    T2=st.floats(200.0, 900.0, **finite),
+)
+def test_random_ratings_fail_cleanly(P1, T1, P2, T2):
+    try:
+        result = wb.compressor(AIR.state(P=P1, T=T1), AIR.state(P=P2, T=T2))
+    except wb.WorkbenchError as exc:
+        assert str(exc)
+        return
+    _check(result)
+    assert 0 < result.isentropic_efficiency <= 1
+    assert result.power > 0
+
+
+@pytest.mark.parametrize("value", ["abc", [1, 2], float("nan")])
+def test_non_numbers_refused(value):
+    with pytest.raises(wb.WorkbenchError, match="pressure"):
+        AIR.state(P=value, T=300.0)
