@@ -91,8 +91,6 @@ class State:
         Vapour quality (mass fraction of vapour) [-], ``None`` when single-phase.
     cp : float
         Isobaric specific heat [J/(kg K)]; NaN inside the two-phase region.
-    speed_of_sound : float
-        Speed of sound [m/s]; NaN inside the two-phase region.
     phase : str
         ``"liquid"``, ``"gas"``, ``"supercritical"``, ``"two-phase"`` (plain words).
     """
@@ -105,7 +103,6 @@ class State:
     rho: float
     x: float | None
     cp: float = float("nan")
-    speed_of_sound: float = float("nan")
     phase: str = ""
 
     @property
@@ -226,6 +223,7 @@ class Fluid:
             self.T_critical = self._as.T_critical()
             self.P_critical = self._as.p_critical()
             self.P_triple = CP.PropsSI("ptriple", names[0]) if backend == "HEOS" else 611.657
+            self._sat_cache: dict = {}
         self.name = self._display_name()
         #: Number of property flashes done by this fluid object (for benchmarks).
         self.flash_count = 0
@@ -336,9 +334,10 @@ class Fluid:
         self._check_pressure(P)
         if self.is_mixture:
             return self._solve_T(P, h, "h", T_guess)
-        st = self._flash(CP.HmassP_INPUTS, h, P, f"P={P:.6g} Pa, h={h:.6g} J/kg")
         if self.backend == "IF97":
-            st = self._if97_exact(P, h, "h", st)
+            st = self._if97_exact(P, h, "h", CP.HmassP_INPUTS, (h, P))
+        else:
+            st = self._flash(CP.HmassP_INPUTS, h, P, f"P={P:.6g} Pa, h={h:.6g} J/kg")
         self._check_temperature(st.T, derived=True)
         return st
 
@@ -347,9 +346,10 @@ class Fluid:
         self._check_pressure(P)
         if self.is_mixture:
             return self._solve_T(P, s, "s", T_guess)
-        st = self._flash(CP.PSmass_INPUTS, P, s, f"P={P:.6g} Pa, s={s:.6g} J/(kg K)")
         if self.backend == "IF97":
-            st = self._if97_exact(P, s, "s", st)
+            st = self._if97_exact(P, s, "s", CP.PSmass_INPUTS, (P, s))
+        else:
+            st = self._flash(CP.PSmass_INPUTS, P, s, f"P={P:.6g} Pa, s={s:.6g} J/(kg K)")
         self._check_temperature(st.T, derived=True)
         return st
 
@@ -392,11 +392,27 @@ class Fluid:
         return st, slope
 
     # ------------------------------------------------------------------ saturation
+    def saturation_states(self, P: float) -> tuple[State, State]:
+        """Saturated liquid and saturated vapour states at pressure P [Pa] (pure fluids).
+
+        Kept in a small cache per pressure: batch rows and sweeps reuse the same pressures.
+        """
+        if self.is_mixture:
+            raise InputError("saturation states are defined for pure fluids only")
+        cached = self._sat_cache.get(P)
+        if cached is None:
+            cached = (self._flash(CP.PQ_INPUTS, P, 0.0, f"saturation at P={P:.6g} Pa"),
+                      self._flash(CP.PQ_INPUTS, P, 1.0, f"saturation at P={P:.6g} Pa"))
+            if len(self._sat_cache) > 512:
+                self._sat_cache.clear()
+            self._sat_cache[P] = cached
+        return cached
+
     def saturation_temperature(self, P: float) -> float:
         """Saturation temperature [K] at pressure P [Pa] (pure fluids)."""
         if self.is_mixture:
             raise InputError("saturation temperature is defined for pure fluids only")
-        return self._flash(CP.PQ_INPUTS, P, 0.0, f"saturation at P={P:.6g} Pa").T
+        return self.saturation_states(P)[0].T
 
     def saturation_pressure(self, T: float) -> float:
         """Saturation (vapour) pressure [Pa] at temperature T [K] (pure fluids)."""
@@ -479,19 +495,27 @@ class Fluid:
             phase_word = _PHASE_WORDS.get(st.phase(), "")
             q = st.Q()
             x = q if (phase_word == "two-phase" and 0.0 <= q <= 1.0) else None
+        cp = float("nan")
         if x is None:
             try:
                 cp = st.cpmass()
-                w = st.speed_sound()
             except Exception:
-                cp = w = float("nan")
-        else:
-            cp = w = float("nan")
-        if not all(math.isfinite(v) for v in (P, T, h, s, rho)) or rho <= 0:
+                pass
+        if not (math.isfinite(P + T + h + s + rho) and rho > 0):
             raise PropertyError(f"the property model returned an invalid state of {self.name}")
-        return State(self, P, T, h, s, rho, x, cp, w, phase_word)
+        return State(self, P, T, h, s, rho, x, cp, phase_word)
 
-    def _if97_exact(self, P: float, target: float, prop: str, approx: State) -> State:
+    def speed_of_sound(self, state: State) -> float:
+        """Speed of sound [m/s] at a single-phase state (NaN inside the two-phase region)."""
+        if state.x is not None:
+            return float("nan")
+        self._flash(CP.PT_INPUTS, state.P, state.T, f"P={state.P:.6g} Pa, T={state.T:.6g} K")
+        try:
+            return self._as.speed_sound()
+        except Exception:
+            return float("nan")
+
+    def _if97_exact(self, P: float, target: float, prop: str, pair, values) -> State:
         """Make an IF97 P-h or P-s state consistent with the forward equations.
 
         The IF97 backward equations T(P, h) and T(P, s) agree with the forward equations only to
@@ -502,16 +526,14 @@ class Fluid:
         """
         pick = (lambda st: st.h) if prop == "h" else (lambda st: st.s)
         if P < self.P_critical:
-            liq = self._flash(CP.PQ_INPUTS, P, 0.0, f"saturation at P={P:.6g} Pa")
-            vap = self._flash(CP.PQ_INPUTS, P, 1.0, f"saturation at P={P:.6g} Pa")
+            liq, vap = self.saturation_states(P)
             lo, hi = pick(liq), pick(vap)
             if lo <= target <= hi:
                 x = (target - lo) / (hi - lo)
                 v = (1 - x) / liq.rho + x / vap.rho
                 return State(self, P, liq.T, liq.h + x * (vap.h - liq.h),
-                             liq.s + x * (vap.s - liq.s), 1.0 / v, x, float("nan"),
-                             float("nan"), "two-phase")
-        st = approx
+                             liq.s + x * (vap.s - liq.s), 1.0 / v, x, float("nan"), "two-phase")
+        st = approx = self._flash(pair, *values, f"P={P:.6g} Pa, {prop}={target:.6g}")
         T = st.T
         for _ in range(20):
             st = self._flash(CP.PT_INPUTS, P, T, f"P={P:.6g} Pa, T={T:.6g} K")
