@@ -95,7 +95,7 @@ class State:
         ``"liquid"``, ``"gas"``, ``"supercritical"``, ``"two-phase"`` (plain words).
     """
 
-    fluid: "Fluid" = field(repr=False)
+    fluid: Fluid = field(repr=False)
     P: float
     T: float
     h: float
