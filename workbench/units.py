@@ -72,7 +72,7 @@ def to_si(value, kind: str, name: str) -> float:
             ) from None
     else:
         magnitude = value
-    if isinstance(magnitude, bool):
+    if isinstance(magnitude, (bool, str, bytes)):
         raise InputError(f"{name} must be a number, not {magnitude!r}")
     try:
         number = float(magnitude)
