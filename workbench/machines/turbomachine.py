@@ -490,7 +490,7 @@ def energy_balance(kind: str, inlet: State, outlet: State | None = None, *, P_ou
         kinetic_energy_change=dke, potential_energy_change=g_dz, specific_heat_loss=q,
         isentropic_efficiency_static=eff_static, isentropic_efficiency_total=eff_total,
         isentropic_efficiency_total_to_static=eff_ts, isentropic_head=head_s,
-        _given_polytropic=given_poly if basis == "static" or not given_poly else given_poly,
+        _given_polytropic=given_poly,
     )
 
 
