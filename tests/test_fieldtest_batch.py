@@ -1,0 +1,142 @@
+"""Tests of workbench.fieldtest.batch: row-by-row equality with the single-point API, bad rows,
+steam against the iapws package (IAPWS-IF97)."""
+
+import pathlib
+
+import numpy as np
+import pandas as pd
+import pytest
+from iapws import IAPWS97
+
+import workbench as wb
+from workbench.errors import InputError
+from workbench.fieldtest import evaluate, read_readings
+
+DATA = pathlib.Path(wb.__file__).parent / "data" / "booster_compressor_readings.csv"
+GAS = {"Methane": 0.89, "Ethane": 0.06, "Propane": 0.02, "Nitrogen": 0.015,
+       "CarbonDioxide": 0.015}
+COLUMN_MAP = {
+    "inlet_pressure": "PT-201 suction bar(g)", "inlet_temperature": "TT-201 suction degC",
+    "outlet_pressure": "PT-202 discharge bar(g)", "outlet_temperature": "TT-202 discharge degC",
+    "standard_volume_flow": "FT-200 flow Sm3/h", "power": "JI-200 shaft kW",
+    "speed": "ST-200 speed rpm",
+}
+UNITS = {"inlet_pressure": "bar(g)", "outlet_pressure": "bar(g)", "inlet_temperature": "degC",
+         "outlet_temperature": "degC", "standard_volume_flow": "Sm3/h", "power": "kW",
+         "speed": "rpm"}
+
+
+def air_frame(n=12, seed=3):
+    rng = np.random.default_rng(seed)
+    p1 = rng.uniform(0.95e5, 1.05e5, n)
+    t1 = rng.uniform(285, 300, n)
+    p2 = p1 * rng.uniform(1.5, 3.0, n)
+    t2 = t1 * (p2 / p1) ** (0.4 / 1.4) + rng.uniform(15, 40, n)
+    return pd.DataFrame({"inlet_pressure": p1, "inlet_temperature": t1, "outlet_pressure": p2,
+                         "outlet_temperature": t2, "mass_flow": rng.uniform(1, 5, n)},
+                        index=pd.RangeIndex(100, 100 + n))
+
+
+def test_batch_equals_single_point_api_row_by_row():
+    # Source: the single-point core API (workbench.compressor), called row by row
+    frame = air_frame()
+    air = wb.Fluid("Air")
+    results = ("power", "isentropic_efficiency", "polytropic_head", "polytropic_efficiency",
+               "outlet_temperature")
+    out = evaluate(frame, "compressor", air, results=results)
+    assert list(out.index) == list(frame.index)
+    assert (out["status"] == "ok").all()
+    for i, row in frame.iterrows():
+        single = wb.compressor(air.state(P=row.inlet_pressure, T=row.inlet_temperature),
+                               air.state(P=row.outlet_pressure, T=row.outlet_temperature),
+                               mass_flow=row.mass_flow)
+        assert out.loc[i, "power"] == pytest.approx(single.power, rel=1e-12)
+        assert out.loc[i, "isentropic_efficiency"] == pytest.approx(
+            single.isentropic_efficiency, rel=1e-12)
+        assert out.loc[i, "polytropic_head"] == pytest.approx(single.polytropic_head, rel=1e-9)
+        assert out.loc[i, "polytropic_efficiency"] == pytest.approx(
+            single.polytropic_efficiency, rel=1e-9)
+
+
+def test_steam_turbine_from_power_against_iapws():
+    # Source: IAPWS-IF97 through the iapws package; rating from measured power
+    # (h2 = h1 - P / m, eta = (h1 - h2) / (h1 - h2s)); exhaust wet for some rows.
+    frame = pd.DataFrame({
+        "inlet_pressure": [40e5, 60e5, 25e5], "inlet_temperature": [673.15, 723.15, 633.15],
+        "outlet_pressure": [5e5, 0.2e5, 3e5], "power": [4.5e6, 9.0e6, 3.0e6],
+        "mass_flow": [12.0, 11.0, 10.0]})
+    steam = wb.Fluid("Water", backend="IF97")
+    out = evaluate(frame, "turbine", steam,
+                   results=("power", "isentropic_efficiency", "outlet_quality"))
+    assert (out["status"] == "ok").all(), out["message"].tolist()
+    for i, row in frame.iterrows():
+        inlet = IAPWS97(P=row.inlet_pressure / 1e6, T=row.inlet_temperature)
+        iso = IAPWS97(P=row.outlet_pressure / 1e6, s=inlet.s)
+        h2 = inlet.h - row.power / row.mass_flow / 1e3  # kJ/kg
+        eta = (inlet.h - h2) / (inlet.h - iso.h)
+        assert out.loc[i, "isentropic_efficiency"] == pytest.approx(eta, rel=2e-5)
+        assert out.loc[i, "power"] == pytest.approx(row.power, rel=1e-9)
+        exhaust = IAPWS97(P=row.outlet_pressure / 1e6, h=h2)
+        if exhaust.x < 1:
+            assert out.loc[i, "outlet_quality"] == pytest.approx(exhaust.x, abs=2e-5)
+        else:
+            assert np.isnan(out.loc[i, "outlet_quality"])
+    assert np.isfinite(out.loc[1, "outlet_quality"])  # 0.2 bar exhaust is wet
+
+
+def test_volume_flows_become_mass_flows():
+    # Source: ideal-gas closed form, rho = P / (R T) for air at 1 atm, 15 degC (Z = 0.9996,
+    # from memory), R = 8.314462618 / 0.0289647 J/(kg K)
+    frame = air_frame(3).drop(columns="mass_flow")
+    frame["standard_volume_flow"] = [1.0, 2.0, 3.0]
+    out = evaluate(frame, "compressor", "Air", results=("mass_flow",))
+    rho_ideal = 101325.0 / (8.314462618 / 0.0289647 * 288.15)
+    np.testing.assert_allclose(out["mass_flow"], rho_ideal * np.array([1.0, 2.0, 3.0]),
+                               rtol=1e-3)
+    frame = frame.rename(columns={"standard_volume_flow": "Q1"})
+    out = evaluate(frame, "compressor", "Air", columns={"volume_flow": "Q1"},
+                   results=("mass_flow", "inlet_volume_flow"))
+    np.testing.assert_allclose(out["inlet_volume_flow"], [1.0, 2.0, 3.0], rtol=1e-12)
+    rho1 = frame.inlet_pressure / (8.314462618 / 0.0289647 * frame.inlet_temperature)
+    np.testing.assert_allclose(out["mass_flow"], rho1 * np.array([1.0, 2.0, 3.0]), rtol=2e-3)
+
+
+def test_bad_file_every_row_back_bad_rows_flagged():
+    # Source: the demo file's own list of deliberately bad rows (see tests/data/
+    # make_demo_readings.py); every other row is computed (common practice: no row dropped)
+    readings = read_readings(DATA, COLUMN_MAP, UNITS, ambient_pressure=101300.0)
+    raw = pd.read_csv(DATA, dtype=str)
+    out = evaluate(readings, "compressor", wb.Fluid(GAS), mechanical_efficiency=0.985)
+    assert len(out) == len(raw) == 300
+    assert list(out["timestamp"]) == list(raw["timestamp"])
+    expected = {37: ("missing reading", "outlet temperature"),
+                88: ("not a number", "inlet pressure"),
+                150: ("not a number", "standard volume flow"),
+                201: ("invalid reading", "inlet pressure"),
+                244: ("invalid reading", "outlet pressure"),
+                270: ("inconsistent readings", "isentropic efficiency")}
+    for row, (status, words) in expected.items():
+        assert out.loc[row, "status"] == status
+        assert words in out.loc[row, "message"]
+        assert out.loc[row, ["power", "isentropic_efficiency"]].isna().all()
+    good = out.drop(index=list(expected))
+    assert (good["status"] == "ok").all()
+    assert (good["message"] == "").all()
+    assert good[["power", "isentropic_efficiency", "isentropic_head"]].notna().all().all()
+    # the invented scenario used isentropic efficiencies of 0.75 to 0.79
+    assert good["isentropic_efficiency"].between(0.73, 0.80).all()
+    # shaft power in the file came from the same mechanical efficiency: within the rounding
+    np.testing.assert_allclose(good["shaft_power"], good["reading_power"], rtol=2e-3)
+    assert not out["message"].str.contains("CoolProp").any()
+
+
+def test_results_choice_and_missing_columns():
+    frame = air_frame(2)
+    out = evaluate(frame, "compressor", "Air", results=("power",), keep_inputs=False)
+    assert list(out.columns) == ["status", "message", "power"]
+    with pytest.raises(InputError, match="unknown result"):
+        evaluate(frame, "compressor", "Air", results=("efficiency",))
+    with pytest.raises(InputError, match="no column for outlet_temperature"):
+        evaluate(frame.drop(columns="outlet_temperature"), "compressor", "Air", mode="outlet")
+    empty = evaluate(frame.iloc[:0], "compressor", "Air")
+    assert len(empty) == 0 and "power" in empty.columns

@@ -1,0 +1,59 @@
+"""Tests of workbench.fieldtest.design: affinity laws against their closed form
+(Q ~ N, H ~ N^2, P ~ N^3, common practice; ISO 9906) and deviations from a design point."""
+
+import numpy as np
+import pandas as pd
+import pytest
+
+from workbench.errors import InputError
+from workbench.fieldtest import DesignPoint, affinity_correction, compare_with_design
+
+
+def test_affinity_laws_closed_form():
+    # Source: affinity laws (common practice, ISO 9906 translation to specified speed)
+    speed = np.array([2800.0, 2950.0, 3100.0])
+    q = np.array([0.050, 0.052, 0.055])
+    h = np.array([900.0, 1000.0, 1100.0])
+    p = np.array([60e3, 66e3, 74e3])
+    corr = affinity_correction(speed, 2950.0, q, h, p)
+    r = 2950.0 / speed
+    np.testing.assert_allclose(corr.volume_flow, q * r, rtol=1e-15)
+    np.testing.assert_allclose(corr.head, h * r * r, rtol=1e-15)
+    np.testing.assert_allclose(corr.power, p * r * r * r, rtol=1e-15)
+    # hydraulic efficiency rho g Q H / P is unchanged by the affinity laws
+    np.testing.assert_allclose(corr.volume_flow * corr.head / corr.power, q * h / p, rtol=1e-12)
+    # at rated speed nothing changes
+    same = affinity_correction(2950.0, 2950.0, 0.05, 900.0, 60e3)
+    assert float(same.power) == 60e3 and float(same.head) == 900.0
+    with pytest.raises(InputError, match="rated speed"):
+        affinity_correction(speed, -1.0, q)
+
+
+def test_compare_with_design_points_and_percent():
+    # Source: definitions: deviation in points = 100 (eta - eta_d); percent = 100 (x/x_d - 1)
+    results = pd.DataFrame({"isentropic_efficiency": [0.80, 0.78], "power": [1.0e6, 1.1e6],
+                            "inlet_volume_flow": [2.0, 2.1], "isentropic_head": [5e4, 5.2e4]})
+    design = DesignPoint(isentropic_efficiency=0.79, power=1.05e6, volume_flow=2.0, head=5e4)
+    out = compare_with_design(results, design)
+    np.testing.assert_allclose(out["efficiency_deviation_points"], [1.0, -1.0], atol=1e-12)
+    np.testing.assert_allclose(out["power_deviation_percent"],
+                               [100 * (1.0 / 1.05 - 1), 100 * (1.1 / 1.05 - 1)], rtol=1e-12)
+    np.testing.assert_allclose(out["flow_deviation_percent"], [0.0, 5.0], atol=1e-12)
+    assert "corrected_power" not in out
+
+
+def test_compare_with_design_corrects_speed_first():
+    # Source: affinity laws (common practice): a pump run at 10 % over speed on its design
+    # curve scales back exactly onto the design point
+    rated = 1480.0
+    design = DesignPoint(isentropic_efficiency=0.82, power=200e3, volume_flow=0.30, head=600.0,
+                         speed=rated)
+    k = 1.1
+    results = pd.DataFrame({"speed": [rated * k], "inlet_volume_flow": [0.30 * k],
+                            "isentropic_head": [600.0 * k ** 2], "power": [200e3 * k ** 3],
+                            "isentropic_efficiency": [0.82]})
+    out = compare_with_design(results, design)
+    for col in ("power_deviation_percent", "flow_deviation_percent", "head_deviation_percent",
+                "efficiency_deviation_points"):
+        assert out.loc[0, col] == pytest.approx(0.0, abs=1e-9)
+    assert out.loc[0, "corrected_power"] == pytest.approx(200e3, rel=1e-12)
