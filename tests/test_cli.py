@@ -1,0 +1,132 @@
+"""Tests of the command line (workbench.cli): parsing, the Voila command built, warnings.
+
+Voila is never started here; :func:`workbench.cli.voila_argv` builds the command line and
+:func:`workbench.cli.serve` is run with ``subprocess.Popen`` replaced.
+"""
+
+from __future__ import annotations
+
+import subprocess
+import sys
+from pathlib import Path
+
+import pytest
+
+from workbench import SAFETY_CAUTION, cli
+
+
+def test_serve_defaults_bind_loopback():
+    args = cli.build_parser().parse_args(["serve"])
+    # common practice: a dashboard server binds to the loopback interface unless told otherwise
+    assert args.host == "127.0.0.1"
+    assert args.port == cli.DEFAULT_PORT
+    assert args.no_browser is False
+
+
+def test_serve_options_parsed():
+    args = cli.build_parser().parse_args(
+        ["serve", "--port", "9123", "--host", "0.0.0.0", "--no-browser"])
+    assert (args.command, args.port, args.host, args.no_browser) == (
+        "serve", 9123, "0.0.0.0", True)
+
+
+def test_port_must_be_a_number():
+    with pytest.raises(SystemExit):
+        cli.build_parser().parse_args(["serve", "--port", "eighty"])
+
+
+def test_a_command_is_required():
+    with pytest.raises(SystemExit):
+        cli.build_parser().parse_args([])
+
+
+def test_voila_argv_hides_code_and_preheats_kernels(tmp_path):
+    argv = cli.voila_argv(tmp_path, host="127.0.0.1", port=9001, pool_size=2)
+    assert argv[:4] == [sys.executable, "-m", "voila", str(tmp_path)]
+    # option names as listed by `voila --help-all` (voila 0.5)
+    for option in ("--no-browser", "--port=9001", "--Voila.ip=127.0.0.1",
+                   "--strip_sources=True", "--show_tracebacks=False",
+                   "--preheat_kernel=True", "--pool_size=2"):
+        assert option in argv
+    # default host of the function itself is the loopback one
+    assert "--Voila.ip=127.0.0.1" in cli.voila_argv(tmp_path)
+
+
+def test_voila_accepts_the_options_it_is_given(tmp_path):
+    """Every ``--name=value`` option built is one that the installed Voila lists."""
+    listed = subprocess.run([sys.executable, "-m", "voila", "--help-all"],
+                            capture_output=True, text=True, timeout=120).stdout
+    for option in cli.voila_argv(tmp_path)[4:]:
+        name = option.split("=", 1)[0]
+        assert name in listed, name
+
+
+@pytest.mark.parametrize("host, exposed", [
+    ("127.0.0.1", False), ("localhost", False), ("::1", False), ("127.0.0.2", False),
+    ("0.0.0.0", True), ("::", True), ("192.0.2.7", True),
+])
+def test_exposed_hosts(host, exposed):
+    assert cli.is_exposed(host) is exposed
+
+
+def test_dashboard_urls():
+    assert cli.dashboard_urls("127.0.0.1", 8866) == [
+        "http://127.0.0.1:8866/voila/render/compressor.ipynb",
+        "http://127.0.0.1:8866/voila/render/turbine.ipynb",
+    ]
+    # a server bound to every interface is shown at the loopback address
+    assert cli.dashboard_urls("0.0.0.0", 8000)[0].startswith("http://127.0.0.1:8000/")
+    assert cli.dashboard_urls("::1", 8000)[0].startswith("http://[::1]:8000/")
+
+
+class _FakeProcess:
+    argv: list[str] = []
+
+    def __init__(self, argv):
+        _FakeProcess.argv = argv
+
+    def wait(self, timeout=None):
+        return 0
+
+
+def _serve(monkeypatch, capsys, argv, folder=Path("dashboards")):
+    monkeypatch.setattr(cli.subprocess, "Popen", _FakeProcess)
+    monkeypatch.setattr(cli, "notebooks_dir", lambda: folder)
+    rc = cli.main(argv)
+    return rc, capsys.readouterr()
+
+
+def test_serve_on_all_interfaces_warns(monkeypatch, capsys):
+    rc, out = _serve(monkeypatch, capsys, ["serve", "--host", "0.0.0.0", "--no-browser"])
+    assert rc == 0
+    assert "WARNING" in out.err and "other machines" in out.err
+    assert "--Voila.ip=0.0.0.0" in _FakeProcess.argv
+
+
+def test_serve_locally_prints_urls_without_warning(monkeypatch, capsys):
+    rc, out = _serve(monkeypatch, capsys, ["serve", "--port", "8999", "--no-browser"])
+    assert rc == 0
+    assert "WARNING" not in out.err
+    assert "http://127.0.0.1:8999/voila/render/compressor.ipynb" in out.out
+    assert "http://127.0.0.1:8999/voila/render/turbine.ipynb" in out.out
+    assert SAFETY_CAUTION in out.out
+    assert _FakeProcess.argv[3] == "dashboards"
+
+
+def test_serve_refuses_bad_port(monkeypatch, capsys):
+    rc, out = _serve(monkeypatch, capsys, ["serve", "--port", "70000", "--no-browser"])
+    assert rc == 2 and "70000" in out.err
+
+
+def test_demo_prints_results(capsys):
+    assert cli.main(["demo"]) == 0
+    out = capsys.readouterr().out
+    assert "kW" in out and "exhaust quality" in out
+    assert SAFETY_CAUTION in out
+
+
+def test_python_dash_m_runs_the_same_command():
+    done = subprocess.run([sys.executable, "-m", "workbench", "serve", "--help"],
+                          capture_output=True, text=True, timeout=60)
+    assert done.returncode == 0
+    assert "--no-browser" in done.stdout and "--host" in done.stdout
