@@ -140,3 +140,43 @@ def test_results_choice_and_missing_columns():
         evaluate(frame.drop(columns="outlet_temperature"), "compressor", "Air", mode="outlet")
     empty = evaluate(frame.iloc[:0], "compressor", "Air")
     assert len(empty) == 0 and "power" in empty.columns
+
+
+def test_text_cells_in_a_plain_frame_are_flagged():
+    # A frame built by hand (not through the readers) with text in a number column
+    frame = air_frame(3).astype(object)
+    frame.loc[101, "outlet_temperature"] = "fault"
+    out = evaluate(frame, "compressor", "Air")
+    assert list(out["status"]) == ["ok", "not a number", "ok"]
+    assert "'fault'" in out.loc[101, "message"]
+
+
+def test_any_readings_give_one_row_each_with_a_status():
+    # Property-based: whatever the numbers, every row comes back with a status; ok rows have
+    # finite results and rows with a message have NaN results (common practice: no row dropped)
+    hypothesis = pytest.importorskip("hypothesis")
+    st = hypothesis.strategies
+    reading = st.one_of(st.floats(allow_nan=True, allow_infinity=True, width=32),
+                        st.floats(min_value=0.5e5, max_value=5e5),
+                        st.floats(min_value=250.0, max_value=500.0))
+
+    @hypothesis.settings(max_examples=40, deadline=None)
+    @hypothesis.given(st.lists(st.tuples(reading, reading, reading, reading, reading),
+                               min_size=1, max_size=6))
+    def check(rows):
+        frame = pd.DataFrame(rows, columns=["inlet_pressure", "inlet_temperature",
+                                            "outlet_pressure", "outlet_temperature",
+                                            "mass_flow"])
+        out = evaluate(frame, "compressor", AIR, results=("power", "isentropic_efficiency"))
+        assert len(out) == len(frame) and list(out.index) == list(frame.index)
+        ok = out["status"] == "ok"
+        assert out.loc[ok, ["power", "isentropic_efficiency"]].notna().all().all()
+        assert out.loc[~ok, ["power", "isentropic_efficiency"]].isna().all().all()
+        assert (out.loc[~ok, "message"] != "").all()
+        assert not out["message"].str.contains("CoolProp").any()
+        assert (out["status"] != "failed").all(), out["message"].tolist()
+
+    check()
+
+
+AIR = wb.Fluid("Air")

@@ -36,7 +36,7 @@ import pandas as pd
 from .. import errors
 from ..fluids import Fluid
 from ..machines.turbomachine import STANDARD_GRAVITY, energy_balance
-from .readers import PROBLEM_COLUMN
+from .readers import PROBLEM_COLUMN, _numbers
 
 #: Result name -> (unit, how to read it from a MachineResult).  Units are SI.
 RESULTS = {
@@ -194,14 +194,23 @@ def evaluate(frame, machine: str = "compressor", fluid=None, *, columns: dict | 
             f"the readings have no column for {', '.join(absent)} (columns: "
             f"{', '.join(map(str, frame.columns))}); map them with columns=")
 
-    def array(name):
-        return frame[col[name]].to_numpy(dtype=float, na_value=np.nan) if col[name] else None
-
-    values = {name: array(name) for name in required}
-    flow = array(flow_name) if flow_name else np.ones(n)
     status = np.full(n, STATUS_OK, dtype=object)
     message = np.full(n, "", dtype=object)
     out = np.full((n, len(names)), np.nan)
+
+    def array(name):
+        series = frame[col[name]]
+        if pd.api.types.is_numeric_dtype(series) and not pd.api.types.is_bool_dtype(series):
+            return series.to_numpy(dtype=float, na_value=np.nan)
+        # text in a number column of a frame that did not come through the readers
+        values, notes = _numbers(series, name, str(col[name]))
+        for i, note in enumerate(notes):
+            if note and "not a number" in note and status[i] == STATUS_OK:
+                status[i], message[i] = STATUS_NOT_NUMBER, note
+        return values
+
+    values = {name: array(name) for name in required}
+    flow = array(flow_name) if flow_name else np.ones(n)
 
     # Vectorised checks first: the file's own notes, missing cells, non-positive pressures.
     if PROBLEM_COLUMN in frame.columns:
@@ -213,8 +222,12 @@ def evaluate(frame, machine: str = "compressor", fluid=None, *, columns: dict | 
     for name in checked:
         data = values.get(name, flow if name == flow_name else None)
         for i in np.flatnonzero(~np.isfinite(data) & (status == STATUS_OK)):
-            status[i] = STATUS_MISSING
-            message[i] = f"{_LABEL[name]} reading is missing"
+            if np.isnan(data[i]):
+                status[i] = STATUS_MISSING
+                message[i] = f"{_LABEL[name]} reading is missing"
+            else:
+                status[i] = STATUS_INVALID
+                message[i] = f"{_LABEL[name]} reading {data[i]} is not a finite number"
     for name in ("inlet_pressure", "outlet_pressure"):
         data = values[name]
         for i in np.flatnonzero((data <= 0) & (status == STATUS_OK)):
