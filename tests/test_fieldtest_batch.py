@@ -180,3 +180,13 @@ def test_any_readings_give_one_row_each_with_a_status():
 
 
 AIR = wb.Fluid("Air")
+
+
+def test_repeated_readings_give_identical_rows():
+    # A historian export repeating its last value: the repeated rows equal the first one
+    frame = pd.concat([air_frame(2)] * 3, ignore_index=True)
+    frame.loc[4, "outlet_pressure"] = 0.5e5  # one repeated row made bad: it alone is flagged
+    out = evaluate(frame, "compressor", AIR)
+    assert list(out["status"]) == ["ok", "ok", "ok", "ok", "invalid reading", "ok"]
+    for i in (2, 5):
+        assert out.loc[i, "power"] == out.loc[i - 2, "power"]

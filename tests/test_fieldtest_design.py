@@ -57,3 +57,32 @@ def test_compare_with_design_corrects_speed_first():
                 "efficiency_deviation_points"):
         assert out.loc[0, col] == pytest.approx(0.0, abs=1e-9)
     assert out.loc[0, "corrected_power"] == pytest.approx(200e3, rel=1e-12)
+
+
+def test_pump_readings_to_rated_speed_end_to_end():
+    # Source: incompressible-liquid closed form (common practice): pump head H = dp / (rho g),
+    # hydraulic power = rho g Q H = Q dp; rho of water at 1 bar, 20 degC = 998.2 kg/m^3
+    # (handbook value, from memory); then the affinity laws to the rated speed.
+    import workbench as wb
+    from workbench.fieldtest import evaluate
+
+    water = wb.Fluid("Water")
+    frame = pd.DataFrame({"inlet_pressure": [1.0e5, 1.0e5], "inlet_temperature": [293.15] * 2,
+                          "outlet_pressure": [9.0e5, 10.0e5], "volume_flow": [0.050, 0.053],
+                          "power": [55e3, 63e3], "speed": [2900.0, 3050.0]})
+    out = evaluate(frame, "pump", water, results=("pump_head", "power", "isentropic_efficiency",
+                                                    "inlet_volume_flow", "mass_flow"))
+    assert (out["status"] == "ok").all(), out["message"].tolist()
+    dp = frame["outlet_pressure"] - frame["inlet_pressure"]
+    np.testing.assert_allclose(out["pump_head"], dp / (998.2 * 9.80665), rtol=2e-3)
+    np.testing.assert_allclose(out["isentropic_efficiency"],
+                               frame["volume_flow"] * dp / frame["power"], rtol=3e-3)
+    design = DesignPoint(isentropic_efficiency=0.75, power=60e3, volume_flow=0.052, head=85.0,
+                         speed=2950.0)
+    dev = compare_with_design(out, design, head_column="pump_head")
+    r = 2950.0 / frame["speed"]
+    np.testing.assert_allclose(dev["corrected_volume_flow"], frame["volume_flow"] * r,
+                               rtol=1e-12)
+    np.testing.assert_allclose(dev["corrected_power"], out["power"] * r ** 3, rtol=1e-12)
+    np.testing.assert_allclose(dev["head_deviation_percent"],
+                               100 * (out["pump_head"] * r ** 2 / 85.0 - 1), rtol=1e-12)

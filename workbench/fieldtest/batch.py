@@ -12,7 +12,8 @@ whose readings are missing, not numbers or inconsistent gets a ``status`` and th
 allowed range), and its result columns are NaN; the other rows are computed.
 
 Speed: one :class:`workbench.Fluid` (one property-library state object) serves every row; the
-standard density for standard volume flows is computed once; the cheap checks (missing cells,
+standard density for standard volume flows is computed once; rows with identical readings
+(a historian repeating its last value) are solved once; the cheap checks (missing cells,
 non-positive absolute pressures, missing flow) are vectorised over the frame before the row
 loop; results that need extra work (polytropic efficiency and head by path integration, Schultz
 values) are read only when asked for, because :class:`workbench.MachineResult` computes them
@@ -255,7 +256,12 @@ def evaluate(frame, machine: str = "compressor", fluid=None, *, columns: dict | 
     getters = [RESULTS[name][1] for name in names]
     p1, t1, p2 = values["inlet_pressure"], values["inlet_temperature"], values["outlet_pressure"]
     second = values["outlet_temperature"] if mode == "outlet" else values["power"]
+    done: dict = {}  # identical readings (a historian repeating its last value) solved once
     for i in np.flatnonzero(status == STATUS_OK):
+        key = (p1[i], t1[i], p2[i], second[i], flow[i])
+        if key in done:
+            status[i], message[i], out[i] = done[key]
+            continue
         try:
             inlet = fluid.state_PT(float(p1[i]), float(t1[i]))
             if flow_name == "volume_flow":
@@ -284,6 +290,7 @@ def evaluate(frame, machine: str = "compressor", fluid=None, *, columns: dict | 
             message[i] = (f"the calculation of this row failed ({type(exc).__name__}); the "
                           "readings are probably outside the property model's range")
             out[i] = np.nan
+        done[key] = (status[i], message[i], out[i].copy())
 
     result = pd.DataFrame(out, index=frame.index, columns=names)
     result.insert(0, "message", pd.Series(message, index=frame.index, dtype=object))
