@@ -190,3 +190,20 @@ def test_repeated_readings_give_identical_rows():
     assert list(out["status"]) == ["ok", "ok", "ok", "ok", "invalid reading", "ok"]
     for i in (2, 5):
         assert out.loc[i, "power"] == out.loc[i - 2, "power"]
+
+
+def test_a_bad_cell_in_an_unused_column_does_not_stop_the_row():
+    csv = ("P1,T1,P2,T2,m,kW\n"
+           "1.0,20,2.0,90,1.0,\n"          # shaft power missing: not needed from outlet T
+           "1.0,20,2.0,90,1.0,80\n"
+           "1.0,20,2.0,,1.0,80\n")         # outlet temperature missing: needed
+    import io
+    readings = read_readings(io.StringIO(csv), {
+        "inlet_pressure": "P1", "inlet_temperature": "T1", "outlet_pressure": "P2",
+        "outlet_temperature": "T2", "mass_flow": "m", "power": "kW"},
+        {"inlet_pressure": "bar(a)", "inlet_temperature": "degC", "outlet_pressure": "bar(a)",
+         "outlet_temperature": "degC", "mass_flow": "kg/s", "power": "kW"})
+    out = evaluate(readings, "compressor", AIR, mode="outlet")
+    assert list(out["status"]) == ["ok", "ok", "missing reading"]
+    assert out.loc[0, "power"] == out.loc[1, "power"]
+    assert "outlet temperature" in out.loc[2, "message"]

@@ -214,11 +214,16 @@ def evaluate(frame, machine: str = "compressor", fluid=None, *, columns: dict | 
     flow = array(flow_name) if flow_name else np.ones(n)
 
     # Vectorised checks first: the file's own notes, missing cells, non-positive pressures.
+    # Only notes about readings this evaluation uses flag a row.
     if PROBLEM_COLUMN in frame.columns:
+        used = tuple(_LABEL[name] + " reading" for name in required + [flow_name] if name)
         notes = frame[PROBLEM_COLUMN].fillna("").astype(str).to_numpy(dtype=object)
         for i in np.flatnonzero(notes != ""):
-            status[i] = STATUS_NOT_NUMBER if "not a number" in notes[i] else STATUS_MISSING
-            message[i] = notes[i]
+            relevant = [note for note in notes[i].split("; ") if note.startswith(used)]
+            if relevant:
+                text = "; ".join(relevant)
+                status[i] = STATUS_NOT_NUMBER if "not a number" in text else STATUS_MISSING
+                message[i] = text
     checked = list(required) + ([flow_name] if flow_name else [])
     for name in checked:
         data = values.get(name, flow if name == flow_name else None)
