@@ -1,0 +1,83 @@
+"""Mixers and splitters: mass and energy balances."""
+
+import math
+
+import pytest
+from iapws import IAPWS97
+
+from workbench.errors import InputError, SpecificationError, WorkbenchError
+from workbench.fluids import Fluid
+from workbench.machines.mixer import mixer, splitter
+from workbench.units import Q_
+
+WATER = Fluid("Water")
+STEAM = Fluid("Water", backend="IF97")
+
+
+def test_outlet_enthalpy_is_mass_weighted_mean():
+    # Adiabatic mixing: h_out = sum(m_i h_i) / sum(m_i) (common practice).
+    streams = [(WATER.state_PT(5e5, 293.15), 2.0), (WATER.state_PT(4e5, 353.15), 1.0),
+               (WATER.state_PT(6e5, 313.15), Q_(3600.0, "kg/h"))]
+    result = mixer(streams)
+    flows = [2.0, 1.0, 1.0]
+    expected = sum(m * st.h for (st, _), m in zip(streams, flows)) / sum(flows)
+    assert result.outlet.h == pytest.approx(expected, rel=1e-9)
+    assert result.mass_flow == pytest.approx(4.0)
+    assert result.outlet.P == pytest.approx(4e5, rel=1e-9)  # the lowest inlet pressure
+    # Liquid water's cp is nearly constant, so the temperature is nearly the weighted mean
+    # too (common practice; cp varies by about 0.3 % over 20-80 degC, from memory).
+    t_mean = (2 * 293.15 + 353.15 + 313.15) / 4
+    assert result.outlet.T == pytest.approx(t_mean, abs=0.2)
+    assert result.entropy_generation > 0  # second law
+
+
+def test_equal_flows_of_saturated_liquid_and_vapour_give_half_quality():
+    # Lever rule: equal masses of saturated liquid and vapour at one pressure mix to x = 0.5
+    # (common practice), checked against IAPWS-IF97 via iapws at the mixed enthalpy.
+    liquid, vapour = STEAM.state(P=10e5, x=0.0), STEAM.state(P=10e5, x=1.0)
+    result = mixer([(liquid, 1.5), (vapour, 1.5)])
+    assert result.outlet.x == pytest.approx(0.5, abs=1e-9)
+    assert IAPWS97(P=1.0, h=result.outlet.h / 1e3).x == pytest.approx(0.5, abs=1e-6)
+
+
+def test_heat_loss_lowers_outlet_enthalpy():
+    # m h_out = sum(m_i h_i) - Q_loss (steady-flow energy equation, common practice).
+    streams = [(WATER.state_PT(5e5, 293.15), 2.0), (WATER.state_PT(5e5, 353.15), 2.0)]
+    adiabatic = mixer(streams)
+    lossy = mixer(streams, heat_loss=4000.0)
+    assert lossy.outlet.h == pytest.approx(adiabatic.outlet.h - 1000.0, rel=1e-9)
+
+
+def test_splitter_mass_balance():
+    inlet = STEAM.state_PT(20e5, 573.15)
+    result = splitter(inlet, 10.0, branch_mass_flows=[2.5, None])
+    assert result.branch_mass_flows == (2.5, 7.5)
+    assert math.fsum(result.branch_mass_flows) == pytest.approx(10.0, rel=1e-9)
+    assert result.outlets[1] is inlet
+    assert splitter(inlet, 10.0, fractions=[0.2, 0.8]).branch_mass_flows[0] == pytest.approx(2.0)
+
+
+def test_split_fraction_above_one_is_refused():
+    inlet = STEAM.state_PT(20e5, 573.15)
+    with pytest.raises(InputError, match="split fraction of branch 1") as info:
+        splitter(inlet, 10.0, fractions=[1.2, None])
+    assert "1.2" in str(info.value) and "[0, 1]" in str(info.value)
+
+
+def test_branch_flows_that_do_not_add_up_are_refused():
+    inlet = STEAM.state_PT(20e5, 573.15)
+    with pytest.raises(SpecificationError, match="mass balance must close"):
+        splitter(inlet, 10.0, branch_mass_flows=[3.0, 6.0])
+    with pytest.raises(SpecificationError, match="more than the inlet flow"):
+        splitter(inlet, 10.0, branch_mass_flows=[11.0, None])
+
+
+def test_mixer_refuses_bad_streams():
+    air = Fluid("Air")
+    with pytest.raises(InputError, match="mixer stream 2"):
+        mixer([(WATER.state_PT(5e5, 300.0), 1.0), (air.state_PT(5e5, 300.0), 1.0)])
+    with pytest.raises(WorkbenchError, match="mixer stream 1 mass flow"):
+        mixer([(WATER.state_PT(5e5, 300.0), 0.0), (WATER.state_PT(5e5, 300.0), 1.0)])
+    with pytest.raises(InputError, match="mixer outlet pressure"):
+        mixer([(WATER.state_PT(5e5, 300.0), 1.0), (WATER.state_PT(4e5, 300.0), 1.0)],
+              P_out=4.5e5)

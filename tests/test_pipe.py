@@ -1,0 +1,102 @@
+"""Pipe segments with a liquid (Bernoulli, Darcy-Weisbach) and NPSH available."""
+
+import math
+
+import pytest
+from iapws import IAPWS97
+
+from workbench.errors import InputError, SpecificationError
+from workbench.fluids import Fluid
+from workbench.machines.pipe import darcy_friction_factor, npsh_available, pipe_segment
+from workbench.machines.turbomachine import STANDARD_GRAVITY as G
+from workbench.units import Q_
+
+WATER = Fluid("Water")
+#: Volumetric expansion coefficient of water at 20 degC [1/K] (from memory).
+BETA_20C = 2.07e-4
+
+
+def _colebrook(Re, eD):
+    # Colebrook (1939), solved by fixed-point iteration here, independent of `fluids`.
+    f = 0.02
+    for _ in range(100):
+        f = (-2.0 * math.log10(eD / 3.7 + 2.51 / (Re * math.sqrt(f)))) ** -2
+    return f
+
+
+def test_bernoulli_rising_narrowing_pipe():
+    # Frictionless, adiabatic: P2 = P1 - rho (V2^2 - V1^2)/2 - rho g dz (Bernoulli's equation,
+    # closed form); density of water at 20 degC and 3 bar from IAPWS-IF97 via iapws.
+    inlet = WATER.state_PT(3e5, 293.15)
+    rho = IAPWS97(P=0.3, T=293.15).rho
+    m, d1, d2, dz = 10.0, 0.10, 0.05, 10.0
+    v1, v2 = m / (rho * math.pi * d1 ** 2 / 4), m / (rho * math.pi * d2 ** 2 / 4)
+    expected = 3e5 - rho * (v2 ** 2 - v1 ** 2) / 2 - rho * G * dz
+    result = pipe_segment(inlet, m, d1, outlet_diameter=d2, elevation_change=dz)
+    assert result.outlet.P == pytest.approx(expected, rel=1e-5)
+    assert result.velocity_out == pytest.approx(v2, rel=1e-5)
+    # Energy: h2 - h1 = v (P2 - P1), and dh = cp dT + v (1 - beta T) dP, so the liquid's
+    # temperature changes by v dP beta T / cp only; water's expansion coefficient at 20 degC
+    # is beta = 2.07e-4 1/K (from memory).
+    dT = (expected - 3e5) / rho * BETA_20C * 293.15 / inlet.cp
+    assert result.outlet.T - 293.15 == pytest.approx(dT, rel=0.03)
+
+
+def test_friction_factor_moody_and_colebrook():
+    # Moody chart, commercial steel, Re = 1e5, e/D = 0.0002: f ~ 0.0195 (from memory, read
+    # off the chart to about 3 %); the Colebrook equation itself to 0.5 % (the `fluids`
+    # default is an explicit solution of Colebrook).
+    f = darcy_friction_factor(1e5, 2e-4)
+    assert f == pytest.approx(0.0195, rel=0.03)
+    assert f == pytest.approx(_colebrook(1e5, 2e-4), rel=5e-3)
+    # Laminar: f = 64/Re (Hagen-Poiseuille, closed form).
+    assert darcy_friction_factor(1000.0, 1e-3) == pytest.approx(0.064, rel=1e-9)
+
+
+def test_darcy_weisbach_head_loss():
+    # h_f = f (L/D) V^2 / (2 g), f from Colebrook (Darcy-Weisbach, common practice).
+    inlet = WATER.state_PT(5e5, 293.15)
+    m, d, length, mu = 20.0, 0.15, 200.0, 1.0e-3
+    result = pipe_segment(inlet, m, d, length=length, viscosity=Q_(1.0, "mPa*s"))
+    v = m / (inlet.rho * math.pi * d ** 2 / 4)
+    re = inlet.rho * v * d / mu
+    f = _colebrook(re, 4.5e-5 / d)
+    head = f * length / d * v ** 2 / (2 * G)
+    assert result.reynolds_number == pytest.approx(re, rel=1e-9)
+    assert result.head_loss == pytest.approx(head, rel=5e-3)
+    assert result.pressure_drop == pytest.approx(inlet.rho * G * head, rel=5e-3)
+    # The friction work warms the liquid at constant enthalpy: dT = g h_f (1 - beta T) / cp
+    # (from dh = cp dT + v (1 - beta T) dP with h constant).
+    warming = G * head * (1 - BETA_20C * 293.15) / inlet.cp
+    assert result.outlet.T - inlet.T == pytest.approx(warming, rel=0.01)
+
+
+def test_pump_work_raises_pressure():
+    # P2 - P1 = rho w for a frictionless level pipe with pump work w (Bernoulli with work).
+    inlet = WATER.state_PT(2e5, 293.15)
+    result = pipe_segment(inlet, 5.0, 0.1, pump_power=5.0e3)
+    assert result.outlet.P - inlet.P == pytest.approx(inlet.rho * 1.0e3, rel=1e-6)
+
+
+def test_npsh_available_matches_closed_form():
+    # NPSHa = (P - Pv)/(rho g) + V^2/(2 g); vapour pressure and density of water at 25 degC
+    # from IAPWS-IF97 via iapws (ANSI/HI 9.6.1 definition).
+    suction = WATER.state_PT(1.2e5, 298.15)
+    pv = IAPWS97(T=298.15, x=0).P * 1e6
+    rho = IAPWS97(P=0.12, T=298.15).rho
+    expected = (1.2e5 - pv) / (rho * G) + 2.0 ** 2 / (2 * G)
+    result = npsh_available(suction, velocity=2.0)
+    assert result.npsh_available == pytest.approx(expected, rel=1e-4)
+    assert result.vapour_pressure == pytest.approx(pv, rel=1e-4)
+
+
+def test_bad_pipe_inputs():
+    with pytest.raises(InputError, match="pipe inlet"):
+        pipe_segment(Fluid("Air").state_PT(2e5, 300.0), 1.0, 0.1)
+    inlet = WATER.state_PT(2e5, 293.15)
+    with pytest.raises(SpecificationError, match="viscosity"):
+        pipe_segment(inlet, 1.0, 0.1, length=10.0)
+    with pytest.raises(SpecificationError, match="outlet pressure"):
+        pipe_segment(inlet, 1.0, 0.1, elevation_change=50.0)
+    with pytest.raises(InputError, match="pipe diameter"):
+        pipe_segment(inlet, 1.0, -0.1)
