@@ -1,0 +1,225 @@
+"""Tests of the machine panel (workbench.ui.machine_panel), driven from Python, no browser.
+
+Shown numbers are compared with the calculation core called directly with the same inputs,
+and with outside facts: IAPWS-IF97 through the ``iapws`` package, the ideal-gas isentrope,
+and unit conversion factors of NIST SP 811.
+"""
+
+import json
+import math
+
+import ipywidgets as widgets
+import pytest
+from iapws import IAPWS97
+
+import workbench as wb
+from workbench.ui import MachinePanel
+from workbench.ui import machine_panel as mp
+
+
+def number(text):
+    """The number at the start of a shown result text."""
+    return float(text.split()[0])
+
+
+def css_classes(widget):
+    found = set(getattr(widget, "_dom_classes", ()))
+    for child in getattr(widget, "children", ()):
+        found |= css_classes(child)
+    return found
+
+
+@pytest.fixture(scope="module")
+def compressor_panel():
+    return MachinePanel()
+
+
+@pytest.fixture
+def panel():
+    return MachinePanel(case="compressor-demo")
+
+
+def demo_gas():
+    return wb.Fluid({"Methane": 0.88, "Ethane": 0.06, "Propane": 0.03, "Nitrogen": 0.03})
+
+
+def test_panel_is_a_vbox_and_has_all_hooks(compressor_panel):
+    p = compressor_panel
+    assert isinstance(p, widgets.VBox)
+    classes = css_classes(p)
+    for name in ("inlet-pressure", "inlet-temperature", "outlet-pressure", "outlet-temperature",
+                 "mass-flow", "isentropic-efficiency", "polytropic-efficiency"):
+        assert f"wb-input-{name}" in classes
+    for name in ("power", "outlet-temperature", "isentropic-efficiency", "polytropic-efficiency"):
+        assert f"wb-result-{name}" in classes
+    assert "wb-message" in classes
+    assert wb.SAFETY_CAUTION.split(".")[0] in p.caution.value
+
+
+def test_compressor_demo_shows_core_results(compressor_panel):
+    p = compressor_panel
+    gas = demo_gas()
+    inlet = gas.state(P=20e5, T=303.15)
+    outlet = gas.state(P=55e5, T=390.15)
+    r = wb.compressor(inlet, outlet, mass_flow=12.0, mechanical_efficiency=0.98)
+    assert not p.stale and p.result is not None
+    # display rounding: about five significant digits
+    assert number(p.shown("power")) == pytest.approx(r.power / 1e3, rel=1e-4)
+    assert number(p.shown("shaft-power")) == pytest.approx(r.shaft_power / 1e3, rel=1e-4)
+    assert number(p.shown("isentropic-efficiency")) == pytest.approx(
+        100 * r.isentropic_efficiency, abs=0.006)
+    assert number(p.shown("polytropic-efficiency")) == pytest.approx(
+        100 * r.polytropic_efficiency, abs=0.006)
+    assert number(p.shown("outlet-temperature")) == pytest.approx(117.0, abs=0.01)
+    # 1 m3/s = 3600 m3/h (exact)
+    assert number(p.shown("outlet-volume-flow")) == pytest.approx(
+        r.outlet_volume_flow * 3600, rel=1e-4)
+
+
+def test_ideal_gas_isentrope_for_air_at_low_pressure():
+    p = MachinePanel()
+    p.set_values(fluid="Air", **{"inlet-pressure": 1.0, "inlet-temperature": 20.0,
+                                 "outlet-pressure": 3.0, "isentropic-efficiency": 100.0,
+                                 "mechanical-efficiency": 100.0})
+    assert p.result is not None and not p.stale, p.message
+    # ideal gas, k = 1.4 for air (from memory): T2 = T1 (P2/P1)^((k-1)/k)
+    t2 = 293.15 * 3.0 ** (0.4 / 1.4) - 273.15
+    assert number(p.shown("outlet-temperature")) == pytest.approx(t2, abs=1.5)
+
+
+def test_turbine_demo_wet_exhaust_against_iapws():
+    p = MachinePanel(case="turbine-demo")
+    assert not p.stale, p.message
+    # IAPWS-IF97 via the iapws package: h2 = h1 - shaft power / (eta_m m)
+    h1 = IAPWS97(P=4.0, T=673.15).h  # kJ/kg
+    h2 = h1 - 8000.0 / (0.98 * 10.0)
+    x2 = IAPWS97(P=0.01, h=h2).x
+    assert number(p.shown("outlet-quality")) == pytest.approx(x2, abs=2e-4)
+    assert number(p.shown("shaft-power")) == pytest.approx(8000.0, rel=1e-4)
+    assert "wet" in p.message
+
+
+def test_bad_entry_keeps_result_and_marks_stale(panel):
+    before = panel.result
+    shown_before = panel.shown("power")
+    assert panel.set_values(**{"inlet-pressure": -5.0}) is False
+    assert panel.stale is True
+    assert panel.result is before
+    assert panel.shown("power") == shown_before
+    assert "inlet" in panel.message and "pressure" in panel.message
+    assert "Traceback" not in panel.message
+    assert "stale" in panel.stale_note.value
+    # a good value clears the stale mark
+    panel.set_values(**{"inlet-pressure": 20.0})
+    assert panel.stale is False
+
+
+def test_typed_entry_through_the_widget_recomputes(panel):
+    entry = panel.entries["outlet-pressure"]
+    entry.field.value = 60.0  # as if typed in the browser, in bar
+    gas = demo_gas()
+    r = wb.compressor(gas.state(P=20e5, T=303.15), gas.state(P=60e5, T=390.15),
+                      mass_flow=12.0, mechanical_efficiency=0.98)
+    assert number(panel.shown("power")) == pytest.approx(r.power / 1e3, rel=1e-4)
+
+
+def test_unexpected_error_shows_short_text(panel, monkeypatch):
+    def broken(*args, **kwargs):
+        raise ZeroDivisionError("float division by zero")
+
+    monkeypatch.setattr(mp, "compute", broken)
+    before = panel.result
+    panel.set_values(**{"mass-flow": 11.0})
+    assert panel.message == "unexpected error: float division by zero"
+    assert panel.stale and panel.result is before
+
+
+def test_unit_switch_converts_entries_and_results(panel):
+    power_w = panel.result.power
+    panel.set_values(unit_system="US customary")
+    # NIST SP 811: 1 bar = 14.50377 psi; 1 hp (550 ft lbf/s) = 745.6999 W
+    assert panel.entry_value("inlet-pressure") == pytest.approx(20 * 14.50377, rel=1e-5)
+    assert panel.entries["inlet-pressure"].unit.value == "psi"
+    assert number(panel.shown("power")) == pytest.approx(power_w / 745.6999, rel=1e-4)
+    # degF = degC * 9/5 + 32 (definition)
+    assert panel.entry_value("inlet-temperature") == pytest.approx(30 * 1.8 + 32, abs=1e-6)
+    # switching units does not change the result
+    assert panel.result.power == pytest.approx(power_w, rel=1e-12)
+
+
+def test_gauge_pressure_uses_the_stated_ambient_pressure(panel):
+    panel.set_values(unit_system="bar(g), degC")
+    assert panel.entry_value("inlet-pressure") == pytest.approx(20 - 1.01325, abs=1e-6)
+    assert panel.entries["inlet-pressure"].unit.value == "bar(g)"
+    panel.set_values(**{"ambient-pressure": 0.9})  # bar absolute: a gauge reading stays
+    assert panel.entry_value("inlet-pressure") == pytest.approx(20 - 1.01325, abs=1e-6)
+    assert panel.result.inlet.P == pytest.approx((20 - 1.01325 + 0.9) * 1e5, rel=1e-9)
+
+
+def test_chart_traces_are_updated_in_place(panel):
+    fig_hs, fig_ts = panel.figures
+    old_x = list(fig_hs.data[5].x)
+    panel.set_values(**{"outlet-temperature": 125.0})
+    assert panel.figures[0] is fig_hs and panel.figures[1] is fig_ts
+    new_x = list(fig_hs.data[5].x)
+    assert new_x != old_x
+    # outlet point at the result's outlet entropy, in kJ/(kg K)
+    assert new_x[1] == pytest.approx(panel.result.outlet.s / 1e3, rel=1e-9)
+    assert list(fig_ts.data[5].y)[1] == pytest.approx(125.0, abs=1e-6)
+
+
+def test_polytropic_path_ends_near_the_outlet():
+    p = MachinePanel(case="compressor-demo")
+    from workbench.ui import charts
+
+    s, h, _T = charts.polytropic_path_points(p.result, steps=12)
+    # a constant-efficiency path at the rated efficiency ends at the measured outlet
+    assert h[-1] == pytest.approx(p.result.outlet.h, rel=2e-3)
+
+
+def test_sweep_rows_csv_and_gaps(panel):
+    table = panel.run_sweep("outlet-pressure", 30.0, 70.0, 5, ["power"])
+    assert len(table) == 5
+    lines = panel.sweep_csv.strip().splitlines()
+    assert len(lines) == 6 and lines[0].startswith("outlet pressure [bar]")
+    gas = demo_gas()
+    r = wb.compressor(gas.state(P=20e5, T=303.15), gas.state(P=50e5, T=390.15),
+                      mass_flow=12.0, mechanical_efficiency=0.98)
+    assert table.iloc[2, 1] == pytest.approx(r.power / 1e3, rel=1e-9)
+    assert "data:text/csv;base64," in panel.sweep_link.value
+    # outlet pressures below the 20 bar inlet fail: gaps, not a crash
+    table = panel.run_sweep("outlet-pressure", 10.0, 30.0, 5, ["power"])
+    assert len(table) == 5
+    assert math.isnan(table.iloc[0, 1]) and not math.isnan(table.iloc[-1, 1])
+    assert "failed" in panel.sweep_note.value
+
+
+def test_mixture_fractions_must_sum_to_one_then_normalise(panel):
+    before = panel.result
+    panel.set_values(composition={"Methane": 0.86, "Ethane": 0.06, "Propane": 0.03,
+                                  "Nitrogen": 0.03})
+    assert panel.stale and panel.result is before
+    assert "sum" in panel.message
+    assert panel.normalise() is True
+    assert not panel.stale
+    assert sum(panel.to_case()["inputs"]["composition"].values()) == pytest.approx(1.0)
+
+
+def test_composition_text_is_parsed_not_evaluated():
+    with pytest.raises(wb.InputError):
+        mp.parse_composition("Methane __import__('os')")
+    assert mp.parse_composition("Methane: 0.9\nEthane = 0.1") == {"Methane": 0.9, "Ethane": 0.1}
+
+
+def test_standard_volume_flow_at_15_degC_and_1_01325_bar(panel):
+    panel.set_values(**{"flow-given": "standard volume flow", "volume-flow": 50000.0})  # m3/h
+    gas = demo_gas()
+    rho = gas.state(P=101325.0, T=288.15).rho
+    # mass flow = standard volume flow x density at standard conditions (ISO 13443)
+    assert panel.result.mass_flow == pytest.approx(50000.0 / 3600 * rho, rel=1e-9)
+
+
+def test_case_json_is_plain_json(compressor_panel):
+    text = compressor_panel.case_json()
+    data = json.loads(text)
+    assert data["inputs"]["inlet_pressure_Pa"] == 2.0e6

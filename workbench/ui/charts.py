@@ -1,0 +1,237 @@
+"""Process charts of the machine panel: h-s and T-s diagrams as plotly FigureWidgets.
+
+The point helpers are pure functions over a :class:`~workbench.fluids.Fluid` and a
+:class:`~workbench.machines.MachineResult` in SI units; they use only the public state
+methods of the fluid (``saturation_states``, ``state_Ps``, ``state_Ph``).  The figures are
+built once with a fixed set of traces; :func:`update_process_figures` changes the traces in
+place inside ``batch_update`` so a front end only redraws.
+
+References
+----------
+Polytropic path of constant efficiency: ``dh = v dP / eta_p`` (compression),
+``dh = eta_p v dP`` (expansion); see ASME PTC 10-1997, section 5.
+"""
+
+from __future__ import annotations
+
+import math
+
+import numpy as np
+import plotly.graph_objects as go
+
+from ..errors import WorkbenchError
+from .common import from_si, unit_label
+
+#: Trace order of each process figure.
+TRACE_NAMES = ("saturation dome", "inlet isobar", "outlet isobar", "polytropic path",
+               "isentropic line", "inlet / outlet", "isentropic end")
+
+_DOME_CACHE: dict = {}
+
+
+def dome_points(fluid, points: int = 40):
+    """Saturation dome of a pure fluid, liquid branch up and vapour branch down.
+
+    Parameters
+    ----------
+    fluid : Fluid
+        A pure fluid (mixtures give empty arrays).
+    points : int
+        Pressures per branch, log-spaced from just above the triple point to 0.995 of the
+        critical pressure.
+
+    Returns
+    -------
+    tuple of numpy.ndarray
+        ``(s, h, T)`` in J/(kg K), J/kg, K; cached per fluid.
+    """
+    if fluid.is_mixture:
+        return np.array([]), np.array([]), np.array([])
+    key = (fluid.components, fluid.backend, points)
+    if key in _DOME_CACHE:
+        return _DOME_CACHE[key]
+    lo = max(getattr(fluid, "P_triple", 1.0) * 1.01, 1.0)
+    hi = fluid.P_critical * 0.995
+    liquid, vapour = [], []
+    for P in np.geomspace(lo, hi, points):
+        try:
+            sl, sv = fluid.saturation_states(float(P))
+        except WorkbenchError:
+            continue
+        liquid.append((sl.s, sl.h, sl.T))
+        vapour.append((sv.s, sv.h, sv.T))
+    rows = liquid + vapour[::-1]
+    arr = np.array(rows, dtype=float).reshape(-1, 3)
+    out = (arr[:, 0], arr[:, 1], arr[:, 2])
+    _DOME_CACHE[key] = out
+    return out
+
+
+def isobar_points(fluid, pressure: float, s_low: float, s_high: float, points: int = 16,
+                  T_guess: float | None = None):
+    """States along an isobar between two entropies; points that fail are NaN (a gap).
+
+    Returns ``(s, h, T)`` arrays in SI units.
+    """
+    s_values = np.linspace(s_low, s_high, points)
+    h_values = np.full(points, math.nan)
+    T_values = np.full(points, math.nan)
+    guess = T_guess
+    for i, s in enumerate(s_values):
+        try:
+            st = fluid.state_Ps(float(pressure), float(s), T_guess=guess)
+        except WorkbenchError:
+            continue
+        h_values[i], T_values[i] = st.h, st.T
+        guess = st.T
+    return s_values, h_values, T_values
+
+
+def polytropic_path_points(result, efficiency: float | None = None, steps: int = 12):
+    """Points of the constant-efficiency polytropic path from inlet to outlet pressure.
+
+    Steps in ln P with a midpoint (second-order) rule on ``dh = v dP / eta`` (compression) or
+    ``dh = eta v dP`` (expansion), starting at the static inlet state.
+
+    Returns ``(s, h, T)`` arrays in SI units, NaN where a state could not be found.
+    """
+    eta = result.polytropic_efficiency if efficiency is None else efficiency
+    inlet = result.inlet
+    fluid = inlet.fluid
+    raises = result.outlet.P > inlet.P
+    pressures = np.geomspace(inlet.P, result.outlet.P, steps + 1)
+    s_out, h_out, T_out = [inlet.s], [inlet.h], [inlet.T]
+    state = inlet
+    for P_next in pressures[1:]:
+        P_now = state.P
+        try:
+            factor = (1.0 / eta) if raises else eta
+            h_mid = state.h + factor * state.v * (P_next - P_now) / 2
+            mid = fluid.state_Ph(float((P_now + P_next) / 2), h_mid, T_guess=state.T)
+            h_next = state.h + factor * mid.v * (P_next - P_now)
+            state = fluid.state_Ph(float(P_next), h_next, T_guess=mid.T)
+        except WorkbenchError:
+            break
+        s_out.append(state.s)
+        h_out.append(state.h)
+        T_out.append(state.T)
+    return np.array(s_out), np.array(h_out), np.array(T_out)
+
+
+def make_process_figures(width: int = 460, height: int = 360):
+    """Two empty FigureWidgets (h-s, T-s) with the traces of :data:`TRACE_NAMES`."""
+    figures = []
+    for y_title in ("specific enthalpy", "temperature"):
+        fig = go.FigureWidget()
+        styles = [
+            dict(mode="lines", line=dict(color="#777777", width=1)),
+            dict(mode="lines", line=dict(color="#4a7fb0", width=1, dash="dot")),
+            dict(mode="lines", line=dict(color="#b0704a", width=1, dash="dot")),
+            dict(mode="lines", line=dict(color="#222222", width=2)),
+            dict(mode="lines", line=dict(color="#6a9a5a", width=1, dash="dash")),
+            dict(mode="markers+text", marker=dict(color="#222222", size=8),
+                 textposition="top center"),
+            dict(mode="markers", marker=dict(color="#6a9a5a", size=8, symbol="x")),
+        ]
+        for name, style in zip(TRACE_NAMES, styles):
+            fig.add_scatter(x=[], y=[], name=name, **style)
+        fig.update_layout(width=width, height=height, margin=dict(l=60, r=10, t=30, b=50),
+                          title=dict(text=f"{y_title} vs entropy", font=dict(size=13)),
+                          legend=dict(font=dict(size=10)), template="simple_white")
+        figures.append(fig)
+    return figures
+
+
+def _range(values, pad=0.08):
+    finite = np.asarray(values, dtype=float)
+    finite = finite[np.isfinite(finite)]
+    if finite.size == 0:
+        return None
+    lo, hi = float(finite.min()), float(finite.max())
+    span = hi - lo or max(abs(hi), 1.0) * 0.05
+    return [lo - pad * span, hi + pad * span]
+
+
+def process_points(result, path_steps: int = 12):
+    """All chart points of a result in SI units, as a dict of ``(s, h, T)`` arrays."""
+    fluid = result.inlet.fluid
+    a, b, iso = result.inlet, result.outlet, result.isentropic_outlet
+    s_lo = min(a.s, b.s, iso.s)
+    s_hi = max(a.s, b.s, iso.s)
+    span = max(s_hi - s_lo, 1.0)
+    s_lo, s_hi = s_lo - 0.15 * span, s_hi + 0.15 * span
+    pts = {
+        "dome": dome_points(fluid),
+        "inlet isobar": isobar_points(fluid, a.P, s_lo, s_hi, T_guess=a.T),
+        "outlet isobar": isobar_points(fluid, b.P, s_lo, s_hi, T_guess=b.T),
+        "path": polytropic_path_points(result, steps=path_steps),
+        "isentropic": (np.array([a.s, iso.s]), np.array([a.h, iso.h]), np.array([a.T, iso.T])),
+        "ends": (np.array([a.s, b.s]), np.array([a.h, b.h]), np.array([a.T, b.T])),
+        "iso end": (np.array([iso.s]), np.array([iso.h]), np.array([iso.T])),
+    }
+    return pts
+
+
+def update_process_figures(figures, points, system="bar, degC"):
+    """Put process points into the two figures in place (same figure objects).
+
+    Parameters
+    ----------
+    figures : list of plotly.graph_objects.FigureWidget
+        From :func:`make_process_figures`.
+    points : dict
+        From :func:`process_points`.
+    system : str or UnitSystem
+        Display unit system of the axes.
+    """
+    order = ("dome", "inlet isobar", "outlet isobar", "path", "isentropic", "ends", "iso end")
+    s_unit = unit_label(system, "specific_entropy")
+    h_unit = unit_label(system, "specific_enthalpy")
+    T_unit = unit_label(system, "temperature")
+    for fig, y_kind, col in ((figures[0], "specific_enthalpy", 1),
+                             (figures[1], "temperature", 2)):
+        focus_x, focus_y = [], []
+        with fig.batch_update():
+            for i, key in enumerate(order):
+                s, h, T = points[key]
+                x = from_si(system, np.asarray(s, dtype=float), "specific_entropy")
+                y = from_si(system, np.asarray((h, T)[col - 1], dtype=float), y_kind)
+                fig.data[i].x = list(np.asarray(x, dtype=float))
+                fig.data[i].y = list(np.asarray(y, dtype=float))
+                if key != "dome":
+                    focus_x.extend(np.atleast_1d(x))
+                    focus_y.extend(np.atleast_1d(y))
+            fig.data[5].text = ["inlet", "outlet"]
+            fig.layout.xaxis.title.text = f"specific entropy [{s_unit}]"
+            fig.layout.yaxis.title.text = (f"specific enthalpy [{h_unit}]" if col == 1
+                                           else f"temperature [{T_unit}]")
+            x_range, y_range = _range(focus_x), _range(focus_y)
+            if x_range:
+                fig.layout.xaxis.range = x_range
+            if y_range:
+                fig.layout.yaxis.range = y_range
+
+
+def make_sweep_figure(width: int = 700, height: int = 340):
+    """An empty FigureWidget for sweep results."""
+    fig = go.FigureWidget()
+    fig.update_layout(width=width, height=height, margin=dict(l=60, r=10, t=30, b=50),
+                      template="simple_white", title=dict(text="sweep", font=dict(size=13)))
+    return fig
+
+
+def update_sweep_figure(fig, x, columns: dict, x_title: str):
+    """Show sweep columns against ``x`` (NaN rows are gaps); the figure object stays."""
+    with fig.batch_update():
+        fig.data = []
+        for i, (name, values) in enumerate(columns.items()):
+            fig.add_scatter(x=list(x), y=list(values), name=name, mode="lines+markers",
+                            connectgaps=False, yaxis="y" if i == 0 else "y2")
+        fig.layout.xaxis.title.text = x_title
+        names = list(columns)
+        fig.layout.yaxis.title.text = names[0] if names else ""
+        if len(names) > 1:
+            fig.update_layout(yaxis2=dict(overlaying="y", side="right",
+                                          title=dict(text=", ".join(names[1:]))))
+        else:
+            fig.update_layout(yaxis2=dict(overlaying="y", side="right", visible=False))

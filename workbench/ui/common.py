@@ -1,0 +1,286 @@
+"""Shared widgets of the panels: unit switch, message area, caution banner, number entries.
+
+Panels keep every value in SI units; these helpers convert to and from the display unit
+system chosen with the unit switch (:data:`workbench.units.UNIT_SYSTEMS`).  Gauge pressures
+are shown against a stated ambient pressure.  Text typed into a field is never evaluated.
+
+References
+----------
+B. N. Taylor, A. Thompson, NIST Special Publication 811, Guide for the Use of the
+International System of Units (SI), 2008 (unit names and conversion factors).
+"""
+
+from __future__ import annotations
+
+import html
+import math
+
+import ipywidgets as widgets
+import numpy as np
+
+from ..units import Q_, UNIT_SYSTEMS, ureg
+
+#: Kinds of displayed quantities beyond :data:`workbench.units.SI_UNITS`:
+#: ``percent`` (an efficiency shown in %), ``elevation`` (m or ft) and
+#: ``absolute_pressure`` (a pressure never shown as gauge, e.g. the ambient pressure).
+EXTRA_KINDS = ("percent", "elevation", "absolute_pressure")
+
+_PRETTY = {
+    "degC": "°C", "degF": "°F", "K": "K", "m**3/s": "m³/s", "m**3/h": "m³/h",
+    "ft**3/min": "ft³/min", "kg/m**3": "kg/m³", "lb/ft**3": "lb/ft³", "J/(kg*K)": "J/(kg K)",
+    "kJ/(kg*K)": "kJ/(kg K)", "Btu/(lb*degR)": "Btu/(lb °R)", "inch": "in", "m**2": "m²",
+    "ft**2": "ft²", "": "-",
+}
+
+DEFAULT_AMBIENT = 101325.0
+
+
+def _system(system):
+    return UNIT_SYSTEMS[system] if isinstance(system, str) else system
+
+
+def unit_of(system, kind: str) -> str:
+    """Pint unit string of a displayed kind in a unit system (``"%"`` for percent)."""
+    system = _system(system)
+    if kind == "percent":
+        return "%"
+    if kind == "elevation":
+        return "ft" if system.unit("length") == "inch" else "m"
+    if kind == "absolute_pressure":
+        return system.unit("pressure")
+    return system.unit(kind)
+
+
+def unit_label(system, kind: str) -> str:
+    """Unit as shown beside an entry or a result (``bar(g)``, ``psig``, ``°C`` ...)."""
+    system = _system(system)
+    unit = unit_of(system, kind)
+    if kind == "pressure" and system.gauge:
+        return {"psi": "psig", "bar": "bar(g)"}.get(unit, unit + " (gauge)")
+    if kind == "absolute_pressure" and system.gauge:
+        return {"psi": "psia", "bar": "bar(abs)"}.get(unit, unit + " (abs)")
+    return _PRETTY.get(unit, unit)
+
+
+def from_si(system, value, kind: str, ambient_pressure: float = DEFAULT_AMBIENT):
+    """Convert an SI value (float or array) to the display unit of ``kind``.
+
+    Parameters
+    ----------
+    system : str or UnitSystem
+        Display unit system.
+    value : float or numpy.ndarray
+        Value in SI units (fraction [-] for ``percent``).
+    kind : str
+        Kind of quantity (a key of ``SI_UNITS`` or one of :data:`EXTRA_KINDS`).
+    ambient_pressure : float
+        Ambient pressure [Pa] for gauge pressures.
+
+    Returns
+    -------
+    float or numpy.ndarray
+        Value in display units; NaN stays NaN, ``None`` becomes NaN.
+    """
+    system = _system(system)
+    if value is None:
+        return math.nan
+    if kind == "percent":
+        return value * 100.0
+    if kind == "dimensionless":
+        return value
+    if kind == "elevation":
+        return value if unit_of(system, kind) == "m" else Q_(value, "m").to("ft").magnitude
+    if kind == "absolute_pressure":
+        kind_unit = system.unit("pressure")
+        return Q_(value, "Pa").to(kind_unit).magnitude
+    if kind == "pressure" and system.gauge:
+        value = value - ambient_pressure
+    return _convert(value, _si_unit(kind), system.unit(kind), kind)
+
+
+def to_si(system, value, kind: str, ambient_pressure: float = DEFAULT_AMBIENT):
+    """Convert a display value to SI units; the inverse of :func:`from_si`."""
+    system = _system(system)
+    if kind == "percent":
+        return value / 100.0
+    if kind == "dimensionless":
+        return value
+    if kind == "elevation":
+        return value if unit_of(system, kind) == "m" else Q_(value, "ft").to("m").magnitude
+    if kind == "absolute_pressure":
+        return Q_(value, system.unit("pressure")).to("Pa").magnitude
+    si = _convert(value, system.unit(kind), _si_unit(kind), kind)
+    if kind == "pressure" and system.gauge:
+        si = si + ambient_pressure
+    return si
+
+
+def _si_unit(kind):
+    from ..units import SI_UNITS
+
+    return SI_UNITS[kind]
+
+
+def _convert(value, from_unit, to_unit, kind):
+    if from_unit == to_unit:
+        return value
+    if kind == "temperature":
+        return Q_(np.asarray(value) if isinstance(value, np.ndarray) else value,
+                  ureg(from_unit).units).to(to_unit).magnitude
+    return (value * ureg(from_unit)).to(to_unit).magnitude
+
+
+def format_number(value, kind: str = "") -> str:
+    """Text of a displayed number: about five significant digits, no exponent.
+
+    Efficiencies in percent get two decimals; NaN shows as an en dash.
+    """
+    if value is None or not isinstance(value, (int, float)) or not math.isfinite(value):
+        return "–"
+    if kind == "percent":
+        return f"{value:.2f}"
+    if value == 0:
+        return "0"
+    digits = max(0, 4 - int(math.floor(math.log10(abs(value)))))
+    return f"{value:.{min(digits, 6)}f}"
+
+
+def round_for_entry(value: float) -> float:
+    """A converted value rounded to 8 significant digits for an entry field."""
+    if not math.isfinite(value) or value == 0:
+        return value
+    return float(f"{value:.8g}")
+
+
+class NumberEntry(widgets.HBox):
+    """A labelled number entry (``FloatText``) with its unit, CSS class ``wb-input-<name>``.
+
+    The entry keeps its value in SI units in :attr:`si`; the field shows it in the display
+    unit system.  ``on_change(entry)`` is called after the user changes the number.
+    """
+
+    def __init__(self, name: str, label: str, kind: str, si_value: float, on_change=None,
+                 system="SI", ambient_pressure: float = DEFAULT_AMBIENT, width="330px"):
+        self.name = name
+        self.kind = kind
+        self.si = float(si_value)
+        self._system = _system(system)
+        self._ambient = ambient_pressure
+        self._on_change = on_change
+        self._quiet = False
+        self.field = widgets.FloatText(
+            value=round_for_entry(from_si(self._system, self.si, kind, ambient_pressure)),
+            continuous_update=False, layout=widgets.Layout(width="120px"))
+        self.label = widgets.Label(label, layout=widgets.Layout(width="170px"))
+        self.unit = widgets.Label(unit_label(self._system, kind),
+                                  layout=widgets.Layout(width="60px"))
+        super().__init__([self.label, self.field, self.unit],
+                         layout=widgets.Layout(width=width, align_items="center"))
+        self.add_class(f"wb-input-{name}")
+        self.field.observe(self._changed, names="value")
+
+    @property
+    def value(self) -> float:
+        """The number shown, in display units."""
+        return self.field.value
+
+    def _changed(self, change):
+        if self._quiet:
+            return
+        self.si = float(to_si(self._system, change["new"], self.kind, self._ambient))
+        if self._on_change is not None:
+            self._on_change(self)
+
+    def set_display(self, value: float, notify: bool = True):
+        """Set the number in display units (as if typed)."""
+        value = float(value)
+        if value == self.field.value:
+            self.si = float(to_si(self._system, value, self.kind, self._ambient))
+            if notify and self._on_change is not None:
+                self._on_change(self)
+            return
+        if notify:
+            self.field.value = value
+        else:
+            self._quiet = True
+            try:
+                self.field.value = value
+                self.si = float(to_si(self._system, value, self.kind, self._ambient))
+            finally:
+                self._quiet = False
+
+    def set_si(self, si_value: float):
+        """Set the SI value and show it, without calling ``on_change``."""
+        self.si = float(si_value)
+        self._refresh()
+
+    def set_system(self, system, ambient_pressure: float):
+        """Show the SI value in another unit system (the SI value does not change)."""
+        self._system = _system(system)
+        self._ambient = ambient_pressure
+        self.unit.value = unit_label(self._system, self.kind)
+        self._refresh()
+
+    def _refresh(self):
+        self._quiet = True
+        try:
+            self.field.value = round_for_entry(
+                from_si(self._system, self.si, self.kind, self._ambient))
+        finally:
+            self._quiet = False
+
+
+class ResultField(widgets.HBox):
+    """A labelled result: the value text is an ``HTML`` widget with class ``wb-result-<name>``."""
+
+    def __init__(self, name: str, label: str, kind: str):
+        self.name = name
+        self.kind = kind
+        self.label = widgets.Label(label, layout=widgets.Layout(width="190px"))
+        self.text = widgets.HTML("–", layout=widgets.Layout(width="150px"))
+        self.text.add_class(f"wb-result-{name}")
+        super().__init__([self.label, self.text])
+
+    def show(self, text: str):
+        self.text.value = html.escape(text)
+
+    @property
+    def shown(self) -> str:
+        return html.unescape(self.text.value)
+
+    def set_stale(self, stale: bool):
+        self.text.style.text_color = "#8a8a8a" if stale else None
+
+
+def unit_switch(value: str = "bar, degC") -> widgets.Dropdown:
+    """Dropdown of the display unit systems (class ``wb-input-unit-system``)."""
+    w = widgets.Dropdown(options=list(UNIT_SYSTEMS), value=value, description="Units",
+                         layout=widgets.Layout(width="240px"))
+    w.add_class("wb-input-unit-system")
+    return w
+
+
+def message_area() -> widgets.HTML:
+    """The message area (class ``wb-message``): plain text, escaped."""
+    w = widgets.HTML("", layout=widgets.Layout(min_height="24px", width="100%"))
+    w.add_class("wb-message")
+    return w
+
+
+def caution_banner(text: str) -> widgets.HTML:
+    """A neutral banner with the safety caution (class ``wb-caution``)."""
+    w = widgets.HTML(
+        f"<div style='border:1px solid #999;padding:4px 8px;background:#f6f6f2;"
+        f"font-size:90%'><b>Caution.</b> {html.escape(text)}</div>",
+        layout=widgets.Layout(width="100%"))
+    w.add_class("wb-caution")
+    return w
+
+
+def choice(name: str, label: str, options, value) -> widgets.Dropdown:
+    """A labelled dropdown with class ``wb-input-<name>``."""
+    w = widgets.Dropdown(options=list(options), value=value, description=label,
+                         style={"description_width": "170px"},
+                         layout=widgets.Layout(width="330px"))
+    w.add_class(f"wb-input-{name}")
+    return w
