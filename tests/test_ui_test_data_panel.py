@@ -99,3 +99,10 @@ def test_fluid_text_is_parsed_not_evaluated():
     assert parse_fluid("Methane=0.9; Ethane=0.1").components == ("Methane", "Ethane")
     with pytest.raises(wb.WorkbenchError):
         parse_fluid("Methane=__import__('os')")
+
+
+def test_design_entries_not_given_are_zero_not_nan():
+    # NaN cannot travel to the browser as a widget value; 0 stands for "not given"
+    panel = FieldDataPanel(fluid="Air")
+    assert panel.d_speed.field.value == 0.0
+    assert panel._design().speed is None

@@ -169,20 +169,20 @@ class FieldDataPanel(widgets.VBox):
             unit.add_class(f"wb-input-unit-{name.replace('_', '-')}")
             self.map_column[name], self.map_unit[name] = col, unit
             rows.append(widgets.HBox([col, unit]))
-        self.u_pressure = NumberEntry("u-pressure", "Pressure uncertainty b", "percent", 0.0025,
+        self.u_pressure = NumberEntry("u-pressure", "Pressure b", "percent", 0.0025,
                                       system="bar, degC")
-        self.u_temperature = NumberEntry("u-temperature", "Temperature uncertainty b (K)",
+        self.u_temperature = NumberEntry("u-temperature", "Temperature b (K)",
                                          "dimensionless", 0.2, system="bar, degC")
-        self.u_flow = NumberEntry("u-flow", "Flow uncertainty b", "percent", 0.01,
+        self.u_flow = NumberEntry("u-flow", "Flow b", "percent", 0.01,
                                   system="bar, degC")
-        self.u_power = NumberEntry("u-power", "Power uncertainty b", "percent", 0.01,
+        self.u_power = NumberEntry("u-power", "Power b", "percent", 0.01,
                                    system="bar, degC")
         design = design or DesignPoint()
-        self.d_eta = NumberEntry("design-efficiency", "Design isentropic efficiency", "percent",
+        self.d_eta = NumberEntry("design-efficiency", "Design efficiency", "percent",
                                  _nan(design.isentropic_efficiency), system="bar, degC")
         self.d_power = NumberEntry("design-power", "Design power", "power", _nan(design.power),
                                    system="bar, degC")
-        self.d_flow = NumberEntry("design-flow", "Design inlet volume flow", "volume_flow",
+        self.d_flow = NumberEntry("design-flow", "Design inlet flow", "volume_flow",
                                   _nan(design.volume_flow), system="bar, degC")
         self.d_speed = NumberEntry("design-speed", "Rated speed (rpm)", "dimensionless",
                                    _nan(design.speed), system="bar, degC")
@@ -208,7 +208,7 @@ class FieldDataPanel(widgets.VBox):
             widgets.HTML("<b>Columns and units</b>"), *rows,
             widgets.HTML("<b>Instrument systematic uncertainties (standard, 1 sigma)</b>"),
             self.u_pressure, self.u_temperature, self.u_flow, self.u_power,
-            widgets.HTML("<b>Design point</b> (leave NaN where not given)"),
+            widgets.HTML("<b>Design point</b> (0 where not given)"),
             self.d_eta, self.d_power, self.d_flow, self.d_speed, self.run])
         super().__init__([
             widgets.HTML("<h3>Field-test readings</h3>"), self.caution, setup, self.message,
@@ -310,7 +310,7 @@ class FieldDataPanel(widgets.VBox):
 
     def _design(self) -> DesignPoint:
         def given(entry):
-            return entry.si if math.isfinite(entry.si) else None
+            return entry.si if math.isfinite(entry.si) and entry.si > 0 else None
 
         return DesignPoint(isentropic_efficiency=given(self.d_eta), power=given(self.d_power),
                            volume_flow=given(self.d_flow), speed=given(self.d_speed))
@@ -538,7 +538,8 @@ def svg_chart(title: str, x_label: str, series: list, width: int = 430,
 
 
 def _nan(value):
-    return math.nan if value is None else float(value)
+    """An entry value for an optional design number: 0 stands for 'not given'."""
+    return 0.0 if value is None else float(value)
 
 
 __all__ = ["FieldDataPanel", "parse_fluid", "svg_chart", "DEMO_FILE", "DEMO_MAP"]
