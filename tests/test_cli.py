@@ -130,3 +130,9 @@ def test_python_dash_m_runs_the_same_command():
                           capture_output=True, text=True, timeout=60)
     assert done.returncode == 0
     assert "--no-browser" in done.stdout and "--host" in done.stdout
+
+
+def test_notebooks_dir_holds_the_dashboards():
+    folder = cli.notebooks_dir()
+    assert folder.name == "notebooks"
+    assert all((folder / name).is_file() for name in cli.DASHBOARDS)

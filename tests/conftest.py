@@ -1,0 +1,94 @@
+"""Shared fixtures.
+
+Browser fixtures: a system Chromium driven by Playwright (never downloaded), and a
+``workbench serve`` subprocess on a free port.  Without Chromium or Playwright the browser
+tests are skipped, unless ``WORKBENCH_REQUIRE_BROWSER=1`` (as in CI), where they fail.
+"""
+
+from __future__ import annotations
+
+import os
+import shutil
+import socket
+import subprocess
+import sys
+import tempfile
+import time
+import urllib.request
+
+import pytest
+
+CHROMIUM_ARGS = [
+    "--headless", "--no-sandbox", "--disable-gpu", "--disable-quic", "--no-first-run",
+    "--disable-background-networking", "--disable-component-update", "--disable-sync",
+]
+
+
+def _no_browser(reason: str):
+    if os.environ.get("WORKBENCH_REQUIRE_BROWSER") == "1":
+        pytest.fail(f"{reason} (WORKBENCH_REQUIRE_BROWSER=1 makes this a failure)")
+    pytest.skip(reason)
+
+
+def chromium_executable() -> str | None:
+    """Path of the system Chromium, or None."""
+    if os.path.exists("/usr/bin/chromium"):
+        return "/usr/bin/chromium"
+    return shutil.which("chromium") or shutil.which("chromium-browser")
+
+
+def free_port() -> int:
+    with socket.socket() as sock:
+        sock.bind(("127.0.0.1", 0))
+        return sock.getsockname()[1]
+
+
+@pytest.fixture(scope="session")
+def browser():
+    """A headless system Chromium (Playwright sync API), closed at the end of the session."""
+    executable = chromium_executable()
+    if executable is None:
+        _no_browser("no Chromium found at /usr/bin/chromium or on PATH")
+    try:
+        from playwright.sync_api import sync_playwright
+    except ImportError:
+        _no_browser("the playwright Python package is not installed")
+    with sync_playwright() as playwright:
+        chromium = playwright.chromium.launch(executable_path=executable, headless=True,
+                                              args=CHROMIUM_ARGS, timeout=60_000)
+        yield chromium
+        chromium.close()
+
+
+@pytest.fixture(scope="module")
+def served_dashboards():
+    """Base URL of a ``workbench serve`` subprocess on a free port (stopped at module end)."""
+    port = free_port()
+    log = tempfile.TemporaryFile(mode="w+")
+    process = subprocess.Popen(
+        [sys.executable, "-m", "workbench", "serve", "--port", str(port), "--no-browser"],
+        stdout=log, stderr=subprocess.STDOUT, text=True)
+    base = f"http://127.0.0.1:{port}"
+    deadline = time.monotonic() + 90
+    try:
+        while True:
+            if process.poll() is not None:
+                log.seek(0)
+                pytest.fail("workbench serve stopped early:\n" + log.read())
+            try:
+                # the folder listing, not a dashboard: a render would use up a warm kernel
+                with urllib.request.urlopen(base + "/", timeout=5):
+                    break
+            except OSError:
+                if time.monotonic() > deadline:
+                    pytest.fail("workbench serve did not answer within 90 s")
+                time.sleep(0.5)
+        yield base
+    finally:
+        process.terminate()
+        try:
+            process.wait(timeout=15)
+        except subprocess.TimeoutExpired:
+            process.kill()
+            process.wait()
+        log.close()

@@ -1,0 +1,110 @@
+"""Browser test: the served dashboards work in a real Chromium as a person would use them.
+
+Starts ``workbench serve`` on a free port (fixture ``served_dashboards`` in conftest.py),
+opens the compressor dashboard, changes the measured outlet temperature and checks that
+the efficiency follows, types an impossible inlet pressure and checks that the message
+names the pressure while the last good result stays shown; then opens the turbine
+dashboard and reads its power.  Skipped without Chromium unless WORKBENCH_REQUIRE_BROWSER=1.
+"""
+
+from __future__ import annotations
+
+import re
+
+import pytest
+
+pytestmark = pytest.mark.browser
+
+#: Bounded waits [ms]: a first render includes a kernel start when no warm one is left.
+FIRST_RESULT_TIMEOUT = 90_000
+UPDATE_TIMEOUT = 30_000
+
+_NUMBER = re.compile(r"[-+]?\d+(?:\.\d+)?(?:[eE][-+]?\d+)?")
+
+
+def number_in(text: str) -> float | None:
+    """First number in a result text ("81.2 %" -> 81.2), or None."""
+    match = _NUMBER.search(text.replace("\u2212", "-").replace(",", ""))
+    return float(match.group()) if match else None
+
+
+def text_of(page, selector: str) -> str:
+    return page.locator(selector).first.inner_text()
+
+
+def wait_for_number(page, selector: str, timeout: float = FIRST_RESULT_TIMEOUT) -> str:
+    """Wait until the element shows a number; returns its text."""
+    page.wait_for_function(
+        "sel => { const e = document.querySelector(sel); return e && /\\d/.test(e.innerText); }",
+        arg=selector, timeout=timeout)
+    return text_of(page, selector)
+
+
+def wait_for_change(page, selector: str, old: str, timeout: float = UPDATE_TIMEOUT) -> str:
+    """Wait until the element's text differs from ``old``; returns the new text."""
+    page.wait_for_function(
+        "([sel, old]) => { const e = document.querySelector(sel);"
+        " return e && e.innerText !== old && /\\d/.test(e.innerText); }",
+        arg=[selector, old], timeout=timeout)
+    return text_of(page, selector)
+
+
+def commit_entry(page, name: str, value: str) -> None:
+    """Type ``value`` into the entry ``wb-input-<name>`` and press Enter."""
+    field = page.locator(f".wb-input-{name} input").first
+    field.fill(value)
+    field.press("Enter")
+
+
+def entry_value(page, name: str) -> float:
+    return float(page.locator(f".wb-input-{name} input").first.input_value())
+
+
+@pytest.fixture(scope="module")
+def screenshots(tmp_path_factory):
+    return tmp_path_factory.mktemp("screenshots")
+
+
+@pytest.fixture()
+def page(browser):
+    context = browser.new_context(viewport={"width": 1400, "height": 1000})
+    page = context.new_page()
+    yield page
+    context.close()
+
+
+def test_compressor_dashboard_updates_and_reports_bad_input(served_dashboards, page,
+                                                            screenshots):
+    page.goto(served_dashboards + "/voila/render/compressor.ipynb",
+              timeout=FIRST_RESULT_TIMEOUT)
+    efficiency = ".wb-result-isentropic-efficiency"
+    first = wait_for_number(page, efficiency)
+    assert number_in(first) is not None
+    # no code is shown (strip_sources): no code-cell input areas in the page
+    assert page.locator(".jp-InputArea-editor, .CodeMirror, .cm-editor").count() == 0
+
+    # a hotter measured discharge at the same pressures means a less efficient compression
+    # (common practice: isentropic efficiency = (h2s - h1) / (h2 - h1) falls as h2 rises)
+    outlet = entry_value(page, "outlet-temperature")
+    commit_entry(page, "outlet-temperature", f"{outlet + 10:g}")
+    second = wait_for_change(page, efficiency, first)
+    assert number_in(second) < number_in(first)
+    page.screenshot(path=str(screenshots / "compressor.png"), full_page=True)
+
+    commit_entry(page, "inlet-pressure", "-50")
+    page.wait_for_function(
+        "() => { const e = document.querySelector('.wb-message');"
+        " return e && /pressure/i.test(e.innerText); }", timeout=UPDATE_TIMEOUT)
+    assert "pressure" in text_of(page, ".wb-message").lower()
+    # the last good result stays visible (marked stale, not blanked)
+    assert number_in(text_of(page, efficiency)) == number_in(second)
+    page.screenshot(path=str(screenshots / "compressor-bad-input.png"), full_page=True)
+    assert (screenshots / "compressor-bad-input.png").stat().st_size > 0
+
+
+def test_turbine_dashboard_shows_power(served_dashboards, page, screenshots):
+    page.goto(served_dashboards + "/voila/render/turbine.ipynb", timeout=FIRST_RESULT_TIMEOUT)
+    power = wait_for_number(page, ".wb-result-power")
+    # a turbine delivers power: a positive magnitude (project sign convention, DESIGN.md)
+    assert number_in(power) > 0
+    page.screenshot(path=str(screenshots / "turbine.png"), full_page=True)
