@@ -1,0 +1,108 @@
+"""Tests of the train panel (workbench.ui.train_panel), driven from Python, no browser.
+
+Shown numbers are compared with the train functions called directly with the same inputs,
+and with outside facts: IAPWS-IF97 through the ``iapws`` package, the two-stage optimum at
+the geometric-mean pressure, and unit conversion factors of NIST SP 811.
+"""
+
+import ipywidgets as widgets
+import pytest
+from iapws import IAPWS97
+
+import workbench as wb
+from workbench.fluids import Fluid
+from workbench.trains import intercooled_compressor
+from workbench.ui.train_panel import COMPRESSOR_ENTRIES, RESULTS, TURBINE_ENTRIES, TrainPanel
+
+
+def number(text):
+    return float(text.split()[0])
+
+
+def css_classes(widget):
+    found = set(getattr(widget, "_dom_classes", ()))
+    for child in getattr(widget, "children", ()):
+        found |= css_classes(child)
+    return found
+
+
+@pytest.fixture
+def panel():
+    return TrainPanel()
+
+
+def test_hooks_and_caution(panel):
+    assert isinstance(panel, widgets.VBox)
+    classes = css_classes(panel)
+    for name in list(COMPRESSOR_ENTRIES) + ["scenario", "gas", "stages", "ratio-method",
+                                            "unit-system"]:
+        assert f"wb-input-{name}" in classes
+    for name in list(RESULTS) + ["stations"]:
+        assert f"wb-result-{name}" in classes
+    assert "wb-result-power-bars" in panel.power_bars._dom_classes
+    assert "wb-result-hs-chart" in panel.hs_chart._dom_classes
+    assert "wb-message" in classes
+    assert wb.SAFETY_CAUTION.split(".")[0] in panel.caution.value
+    panel.scenario.value = "extraction turbine"
+    classes = css_classes(panel)
+    for name in TURBINE_ENTRIES:
+        assert f"wb-input-{name}" in classes
+
+
+def test_two_stage_optimum_shown_at_geometric_mean(panel):
+    # Two ideal stages with perfect intercooling and no drops: the panel's stage ratios are
+    # equal, P_i = sqrt(P1 P2) (textbook result; 0.5 % for real-gas effects of air).
+    panel.stages.value = 2
+    panel.set_input("suction-temperature", 25.0)   # degC
+    panel.set_input("cooler-outlet-temperature", 25.0)
+    panel.set_input("isentropic-efficiency", 100.0)
+    panel.set_input("cooler-pressure-drop", 0.0)
+    panel.set_input("knockout-pressure-drop", 0.0)
+    assert panel.message.value == ""
+    r1, r2 = (float(v) for v in panel.results["stage-ratios"].shown.split(","))
+    assert r1 == pytest.approx(3.0, rel=5e-3) and r2 == pytest.approx(3.0, rel=5e-3)
+    # Same inputs straight into the library give the power shown (kW, 5 digits).
+    air = Fluid("Air")
+    direct = intercooled_compressor(air.state_PT(1e5, 298.15), 1.5, P_out=9e5, stages=2,
+                                    isentropic_efficiency=1.0, cooler_outlet_temperature=298.15,
+                                    stage_ratios="optimal")
+    assert number(panel.results["total-power"].shown) == pytest.approx(
+        direct.total_power / 1e3, rel=1e-4)
+    assert len(panel.power_bars.data[0].y) == 2
+    assert len(panel.hs_chart.data[0].x) == 4   # inlet, stage 1, intercooler, stage 2
+
+
+def test_turbine_exhaust_matches_if97(panel):
+    # Back-pressure turbine demo: exhaust enthalpy from IAPWS-IF97 via iapws, with the
+    # valve isenthalpic and h2 = h1 - eta (h1 - h2s) in each section.
+    panel.scenario.value = "extraction turbine"
+    assert panel.message.value == ""
+    h1 = IAPWS97(P=4.2, T=713.15).h
+    s1 = IAPWS97(P=3.8, h=h1).s
+    h2 = h1 - 0.78 * (h1 - IAPWS97(P=1.2, s=s1).h)
+    h3 = h2 - 0.75 * (h2 - IAPWS97(P=0.4, s=IAPWS97(P=1.2, h=h2).s).h)
+    power = 12.0 * (h1 - h2) + 8.0 * (h2 - h3)  # kW
+    assert number(panel.results["total-power"].shown) == pytest.approx(power, rel=1e-4)
+    t3 = IAPWS97(P=0.4, h=h3).T - 273.15
+    assert number(panel.results["outlet-temperature"].shown) == pytest.approx(t3, abs=0.01)
+
+
+def test_unit_switch_keeps_si_values(panel):
+    # 1 psi = 6894.757 Pa, 1 hp (mechanical) = 745.6999 W (NIST SP 811).
+    kw = number(panel.results["total-power"].shown)
+    panel.units.value = "psig, degF"
+    assert panel.entries["discharge-pressure"].value == pytest.approx(9e5 / 6894.757, rel=1e-6)
+    assert number(panel.results["total-power"].shown) == pytest.approx(kw * 1e3 / 745.6999,
+                                                                      rel=1e-4)
+    assert panel.si("discharge-pressure") == pytest.approx(9e5)
+    assert "psia" in panel.stations.value
+
+
+def test_bad_input_shows_message_and_keeps_last_result(panel):
+    shown = panel.results["total-power"].shown
+    panel.set_input("cooler-outlet-temperature", 400.0)  # degC, hotter than any discharge
+    assert "cooler outlet temperature" in panel.message.value
+    assert panel.stale
+    assert panel.results["total-power"].shown == shown
+    panel.set_input("cooler-outlet-temperature", 35.0)
+    assert panel.message.value == "" and not panel.stale
