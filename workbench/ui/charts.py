@@ -118,11 +118,40 @@ def polytropic_path_points(result, efficiency: float | None = None, steps: int =
     return np.array(s_out), np.array(h_out), np.array(T_out)
 
 
-def make_process_figures(width: int = 460, height: int = 360):
+def new_figure():
+    """A plotly FigureWidget, or a plain Figure when the widget front end (anywidget) is
+    not installed; show a plain Figure with :func:`figure_view` / :func:`refresh_view`."""
+    try:
+        return go.FigureWidget()
+    except ImportError:
+        return go.Figure()
+
+
+def figure_view(fig):
+    """A widget showing ``fig``: the FigureWidget itself, or an Output widget for a Figure."""
+    import ipywidgets as widgets
+
+    if isinstance(fig, widgets.DOMWidget):
+        return fig
+    view = widgets.Output()
+    refresh_view(view, fig)
+    return view
+
+
+def refresh_view(view, fig):
+    """Redraw a plain Figure in its Output view (FigureWidgets redraw by themselves)."""
+    if view is fig:
+        return
+    view.clear_output(wait=True)
+    with view:
+        fig.show()
+
+
+def make_process_figures(width: int = 560, height: int = 400):
     """Two empty FigureWidgets (h-s, T-s) with the traces of :data:`TRACE_NAMES`."""
     figures = []
     for y_title in ("specific enthalpy", "temperature"):
-        fig = go.FigureWidget()
+        fig = new_figure()
         styles = [
             dict(mode="lines", line=dict(color="#777777", width=1)),
             dict(mode="lines", line=dict(color="#4a7fb0", width=1, dash="dot")),
@@ -135,9 +164,10 @@ def make_process_figures(width: int = 460, height: int = 360):
         ]
         for name, style in zip(TRACE_NAMES, styles):
             fig.add_scatter(x=[], y=[], name=name, **style)
-        fig.update_layout(width=width, height=height, margin=dict(l=60, r=10, t=30, b=50),
+        fig.update_layout(width=width, height=height, margin=dict(l=60, r=10, t=30, b=90),
                           title=dict(text=f"{y_title} vs entropy", font=dict(size=13)),
-                          legend=dict(font=dict(size=10)), template="simple_white")
+                          legend=dict(font=dict(size=10), orientation="h", y=-0.22),
+                          template="simple_white")
         figures.append(fig)
     return figures
 
@@ -170,6 +200,25 @@ def process_points(result, path_steps: int = 12):
         "iso end": (np.array([iso.s]), np.array([iso.h]), np.array([iso.T])),
     }
     return pts
+
+
+def sync_figure(fig):
+    """Send a FigureWidget's whole data and layout state to the front end.
+
+    In-place updates travel as deltas that a front end only applies to views already on
+    the page; a view drawn later (a dashboard loading, a second display) starts from the
+    model state, which this keeps current.
+    """
+    import copy
+
+    try:
+        if fig.has_trait("_widget_data"):  # plotly >= 6 (anywidget front end)
+            fig._widget_data = copy.deepcopy(fig._data)
+            fig._widget_layout = copy.deepcopy(fig._layout_obj._props)
+        elif fig.has_trait("_data"):  # plotly 5
+            fig.send_state(["_data", "_layout"])
+    except (AttributeError, TypeError):
+        pass  # a plain Figure, redrawn by refresh_view
 
 
 def update_process_figures(figures, points, system="bar, degC"):
@@ -210,11 +259,12 @@ def update_process_figures(figures, points, system="bar, degC"):
                 fig.layout.xaxis.range = x_range
             if y_range:
                 fig.layout.yaxis.range = y_range
+        sync_figure(fig)
 
 
 def make_sweep_figure(width: int = 700, height: int = 340):
     """An empty FigureWidget for sweep results."""
-    fig = go.FigureWidget()
+    fig = new_figure()
     fig.update_layout(width=width, height=height, margin=dict(l=60, r=10, t=30, b=50),
                       template="simple_white", title=dict(text="sweep", font=dict(size=13)))
     return fig
@@ -235,3 +285,4 @@ def update_sweep_figure(fig, x, columns: dict, x_title: str):
                                           title=dict(text=", ".join(names[1:]))))
         else:
             fig.update_layout(yaxis2=dict(overlaying="y", side="right", visible=False))
+    sync_figure(fig)

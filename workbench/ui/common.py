@@ -16,7 +16,6 @@ import html
 import math
 
 import ipywidgets as widgets
-import numpy as np
 
 from ..units import Q_, UNIT_SYSTEMS, ureg
 
@@ -121,13 +120,24 @@ def _si_unit(kind):
     return SI_UNITS[kind]
 
 
+_AFFINE: dict = {}
+
+
 def _convert(value, from_unit, to_unit, kind):
+    """Unit conversion as ``a * value + b``, with a and b found once by pint per unit pair."""
     if from_unit == to_unit:
         return value
-    if kind == "temperature":
-        return Q_(np.asarray(value) if isinstance(value, np.ndarray) else value,
-                  ureg(from_unit).units).to(to_unit).magnitude
-    return (value * ureg(from_unit)).to(to_unit).magnitude
+    key = (from_unit, to_unit)
+    if key not in _AFFINE:
+        if kind == "temperature":
+            zero = Q_(0.0, ureg(from_unit).units).to(to_unit).magnitude
+            one = Q_(1.0, ureg(from_unit).units).to(to_unit).magnitude
+        else:
+            zero = 0.0
+            one = (1.0 * ureg(from_unit)).to(to_unit).magnitude
+        _AFFINE[key] = (one - zero, zero)
+    a, b = _AFFINE[key]
+    return a * value + b
 
 
 def format_number(value, kind: str = "") -> str:
@@ -236,8 +246,8 @@ class ResultField(widgets.HBox):
     def __init__(self, name: str, label: str, kind: str):
         self.name = name
         self.kind = kind
-        self.label = widgets.Label(label, layout=widgets.Layout(width="190px"))
-        self.text = widgets.HTML("–", layout=widgets.Layout(width="150px"))
+        self.label = widgets.Label(label, layout=widgets.Layout(width="215px"))
+        self.text = widgets.HTML("–", layout=widgets.Layout(width="130px"))
         self.text.add_class(f"wb-result-{name}")
         super().__init__([self.label, self.text])
 

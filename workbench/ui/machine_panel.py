@@ -67,7 +67,7 @@ ENTRIES = {
     "velocity-out": ("velocity_out_m_per_s", "outlet velocity", "velocity"),
     "diameter-in": ("diameter_in_m", "inlet flow diameter", "length"),
     "diameter-out": ("diameter_out_m", "outlet flow diameter", "length"),
-    "elevation-change": ("elevation_change_m", "elevation change (out - in)", "elevation"),
+    "elevation-change": ("elevation_change_m", "elevation change", "elevation"),
     "heat-loss": ("heat_loss_W", "heat loss", "heat_flow"),
     "mechanical-efficiency": ("mechanical_efficiency", "mechanical efficiency", "percent"),
     "isentropic-efficiency": ("isentropic_efficiency", "isentropic efficiency", "percent"),
@@ -370,6 +370,7 @@ class MachinePanel(widgets.VBox):
                         for name, (label, kind, _get) in RESULTS.items()}
 
         self.figures = charts.make_process_figures()
+        self.figure_views = [charts.figure_view(f) for f in self.figures]
         self._build_sweep()
         self._build_case_tools()
         self._show_composition_sum()
@@ -402,6 +403,7 @@ class MachinePanel(widgets.VBox):
         self.sweep_button.add_class("wb-input-sweep-run")
         self.sweep_button.on_click(self._guard(lambda _b: self.run_sweep()))
         self.sweep_figure = charts.make_sweep_figure()
+        self.sweep_view = charts.figure_view(self.sweep_figure)
         self.sweep_note = widgets.HTML("")
         self.sweep_note.add_class("wb-result-sweep-note")
         self.sweep_link = widgets.HTML("")
@@ -453,14 +455,14 @@ class MachinePanel(widgets.VBox):
         header = widgets.HBox([self.title_html, self.units, self.entries["ambient-pressure"]],
                               layout=widgets.Layout(justify_content="space-between",
                                                     align_items="center", width="100%"))
-        chart_box = widgets.HBox(self.figures, layout=widgets.Layout(flex_flow="row wrap"))
+        chart_box = widgets.HBox(self.figure_views, layout=widgets.Layout(flex_flow="row wrap"))
         sweep_box = widgets.VBox([
             widgets.HBox([
                 widgets.VBox([self.sweep_input, self.sweep_start, self.sweep_stop,
                               self.sweep_points, self.sweep_button, self.sweep_note,
                               self.sweep_link]),
                 self.sweep_results]),
-            self.sweep_figure, self.sweep_table_html])
+            self.sweep_view, self.sweep_table_html])
         case_box = widgets.VBox([
             widgets.HBox([self.demo_choice, self.demo_button]),
             widgets.HBox([self.upload]),
@@ -672,6 +674,7 @@ class MachinePanel(widgets.VBox):
         self.sweep_table = table
         self.sweep_csv = table.to_csv(index=False)
         charts.update_sweep_figure(self.sweep_figure, x_values, columns, x_col)
+        charts.refresh_view(self.sweep_view, self.sweep_figure)
         encoded = base64.b64encode(self.sweep_csv.encode("utf-8")).decode("ascii")
         self.sweep_link.value = (f"<a download='sweep.csv' href='data:text/csv;base64,{encoded}'"
                                  " target='_blank'>download the table (CSV)</a>")
@@ -854,8 +857,14 @@ class MachinePanel(widgets.VBox):
         self._mark_stale()
 
     def _draw_charts(self):
-        if self._points is not None:
+        if self._points is None:
+            return
+        try:
             charts.update_process_figures(self.figures, self._points, self.system)
+            for view, fig in zip(self.figure_views, self.figures):
+                charts.refresh_view(view, fig)
+        except Exception as exc:  # noqa: BLE001 - the numbers stay good; the chart is not
+            self._set_message("the process chart could not be drawn: " + describe_error(exc))
 
     def _show_composition_sum(self):
         try:
