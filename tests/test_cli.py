@@ -8,7 +8,6 @@ from __future__ import annotations
 
 import subprocess
 import sys
-from pathlib import Path
 
 import pytest
 
@@ -89,32 +88,38 @@ class _FakeProcess:
         return 0
 
 
-def _serve(monkeypatch, capsys, argv, folder=Path("dashboards")):
+def _serve(monkeypatch, capsys, argv, folder):
+    folder.mkdir(exist_ok=True)
+    for name in cli.DASHBOARDS:
+        (folder / name).write_text("{}")
     monkeypatch.setattr(cli.subprocess, "Popen", _FakeProcess)
     monkeypatch.setattr(cli, "notebooks_dir", lambda: folder)
     rc = cli.main(argv)
     return rc, capsys.readouterr()
 
 
-def test_serve_on_all_interfaces_warns(monkeypatch, capsys):
-    rc, out = _serve(monkeypatch, capsys, ["serve", "--host", "0.0.0.0", "--no-browser"])
+def test_serve_on_all_interfaces_warns(monkeypatch, capsys, tmp_path):
+    rc, out = _serve(monkeypatch, capsys, ["serve", "--host", "0.0.0.0", "--no-browser"],
+                     tmp_path)
     assert rc == 0
     assert "WARNING" in out.err and "other machines" in out.err
     assert "--Voila.ip=0.0.0.0" in _FakeProcess.argv
 
 
-def test_serve_locally_prints_urls_without_warning(monkeypatch, capsys):
-    rc, out = _serve(monkeypatch, capsys, ["serve", "--port", "8999", "--no-browser"])
+def test_serve_locally_prints_urls_without_warning(monkeypatch, capsys, tmp_path):
+    rc, out = _serve(monkeypatch, capsys, ["serve", "--port", "8999", "--no-browser"],
+                     tmp_path)
     assert rc == 0
     assert "WARNING" not in out.err
     assert "http://127.0.0.1:8999/voila/render/compressor.ipynb" in out.out
     assert "http://127.0.0.1:8999/voila/render/turbine.ipynb" in out.out
     assert SAFETY_CAUTION in out.out
-    assert _FakeProcess.argv[3] == "dashboards"
+    assert _FakeProcess.argv[3] == str(tmp_path)
 
 
-def test_serve_refuses_bad_port(monkeypatch, capsys):
-    rc, out = _serve(monkeypatch, capsys, ["serve", "--port", "70000", "--no-browser"])
+def test_serve_refuses_bad_port(monkeypatch, capsys, tmp_path):
+    rc, out = _serve(monkeypatch, capsys, ["serve", "--port", "70000", "--no-browser"],
+                     tmp_path)
     assert rc == 2 and "70000" in out.err
 
 
@@ -136,3 +141,10 @@ def test_notebooks_dir_holds_the_dashboards():
     folder = cli.notebooks_dir()
     assert folder.name == "notebooks"
     assert all((folder / name).is_file() for name in cli.DASHBOARDS)
+
+
+def test_dashboard_names_put_the_machines_first(tmp_path):
+    for name in ("a-extra.ipynb", "turbine.ipynb", "compressor.ipynb", "notes.txt"):
+        (tmp_path / name).write_text("{}")
+    assert cli.dashboard_names(tmp_path) == ["compressor.ipynb", "turbine.ipynb",
+                                             "a-extra.ipynb"]

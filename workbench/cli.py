@@ -79,14 +79,20 @@ def format_host(host: str) -> str:
     return f"[{host}]" if ":" in host and not host.startswith("[") else host
 
 
-def dashboard_urls(host: str, port: int) -> list[str]:
-    """Addresses of the dashboards served by :func:`voila_argv`.
+def dashboard_names(folder: Path) -> list[str]:
+    """Notebooks served from ``folder``: the compressor and turbine first, then the rest."""
+    others = sorted(p.name for p in folder.glob("*.ipynb") if p.name not in DASHBOARDS)
+    return [name for name in DASHBOARDS if (folder / name).is_file()] + others
+
+
+def dashboard_urls(host: str, port: int, names=DASHBOARDS) -> list[str]:
+    """Addresses of the dashboards ``names`` served by :func:`voila_argv`.
 
     A server bound to every interface (``0.0.0.0``/``::``) is shown at ``127.0.0.1`` for
     the local browser.
     """
     shown = DEFAULT_HOST if host in ("0.0.0.0", "::", "") else format_host(host)
-    return [f"http://{shown}:{port}/voila/render/{name}" for name in DASHBOARDS]
+    return [f"http://{shown}:{port}/voila/render/{name}" for name in names]
 
 
 def voila_argv(folder: Path, host: str = DEFAULT_HOST, port: int = DEFAULT_PORT,
@@ -148,7 +154,7 @@ def serve(host: str, port: int, open_browser: bool) -> int:
         print(EXPOSED_WARNING.format(host=host), file=sys.stderr, flush=True)
     folder = notebooks_dir()
     argv = voila_argv(folder, host=host, port=port)
-    urls = dashboard_urls(host, port)
+    urls = dashboard_urls(host, port, dashboard_names(folder))
     print("Serving the workbench dashboards (Ctrl-C stops):")
     for url in urls:
         print("  " + url)
