@@ -236,3 +236,15 @@ def test_figure_model_state_follows_in_place_updates(panel):
     else:
         pytest.skip("plain plotly Figure: redrawn whole")
     assert list(synced)[1] == pytest.approx(panel.result.outlet.s / 1e3, rel=1e-9)
+
+
+def test_typing_an_efficiency_makes_it_fix_the_outlet(panel):
+    panel.set_values(**{"isentropic-efficiency": 80.0})
+    assert panel.choices["outlet-mode"].value == "isentropic efficiency"
+    gas = demo_gas()
+    r = wb.compressor(gas.state(P=20e5, T=303.15), P_out=55e5, isentropic_efficiency=0.8,
+                      mass_flow=12.0, mechanical_efficiency=0.98)
+    assert number(panel.shown("power")) == pytest.approx(r.power / 1e3, rel=1e-4)
+    # the measured outlet temperature entry is now not used: its label is greyed
+    assert panel.entries["outlet-temperature"].label.style.text_color == "#9a9a9a"
+    assert panel.entries["isentropic-efficiency"].label.style.text_color is None

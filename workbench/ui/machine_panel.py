@@ -89,13 +89,14 @@ CHOICES = {
     "velocity-given": ("velocity_given", "velocities from", case_files.VELOCITY_GIVEN),
 }
 
-#: Typing into one of these entries makes it the input that is used (input key, value).
+#: Typing into one of these entries makes it the input that is used: (input key, value)
+#: pairs set with it.
 _ENTRY_SELECTS = {
     "isentropic-efficiency": ("outlet_fixed_by", "isentropic efficiency"),
     "polytropic-efficiency": ("outlet_fixed_by", "polytropic efficiency"),
     "measured-power": ("outlet_fixed_by", "measured power"),
-    "outlet-temperature": ("outlet_given", "temperature"),
-    "outlet-quality": ("outlet_given", "quality"),
+    "outlet-temperature": (("outlet_given", "temperature"), ("outlet_fixed_by", "measured outlet")),
+    "outlet-quality": (("outlet_given", "quality"), ("outlet_fixed_by", "measured outlet")),
     "inlet-temperature": ("inlet_given", "temperature"),
     "inlet-quality": ("inlet_given", "quality"),
     "mass-flow": ("flow_given", "mass flow"),
@@ -104,6 +105,46 @@ _ENTRY_SELECTS = {
     "diameter-in": ("velocity_given", "flow diameters"),
     "diameter-out": ("velocity_given", "flow diameters"),
 }
+
+
+def _selected_by(name: str) -> dict:
+    """Input choices that typing into entry ``name`` selects (so the typed number is used)."""
+    pairs = _ENTRY_SELECTS.get(name, ())
+    if pairs and isinstance(pairs[0], str):
+        pairs = (pairs,)
+    return dict(pairs)
+
+
+#: Entries in use for each choice value: (input key, value) -> entry hook names.
+_USED_WHEN = {
+    ("inlet_given", "temperature"): ("inlet-temperature",),
+    ("inlet_given", "quality"): ("inlet-quality",),
+    ("outlet_fixed_by", "isentropic efficiency"): ("isentropic-efficiency", "outlet-pressure"),
+    ("outlet_fixed_by", "polytropic efficiency"): ("polytropic-efficiency", "outlet-pressure"),
+    ("outlet_fixed_by", "measured power"): ("measured-power", "outlet-pressure"),
+    ("outlet_fixed_by", "measured outlet"): ("outlet-pressure",),
+    ("flow_given", "mass flow"): ("mass-flow",),
+    ("flow_given", "inlet volume flow"): ("volume-flow",),
+    ("flow_given", "standard volume flow"): ("volume-flow",),
+    ("velocity_given", "velocities"): ("velocity-in", "velocity-out"),
+    ("velocity_given", "flow diameters"): ("diameter-in", "diameter-out"),
+}
+_OPTIONAL = {"inlet-temperature", "inlet-quality", "outlet-temperature", "outlet-quality",
+             "isentropic-efficiency", "polytropic-efficiency", "measured-power", "mass-flow",
+             "volume-flow", "velocity-in", "velocity-out", "diameter-in", "diameter-out",
+             "outlet-pressure"}
+
+
+def entries_in_use(inputs: dict) -> set:
+    """Hook names of the optional entries that the current choices use."""
+    used = set()
+    for (key, value), names in _USED_WHEN.items():
+        if inputs.get(key) == value:
+            used.update(names)
+    if inputs.get("outlet_fixed_by") == "measured outlet":
+        used.add("outlet-temperature" if inputs.get("outlet_given") == "temperature"
+                 else "outlet-quality")
+    return used
 
 
 def _quality(st):
@@ -527,9 +568,7 @@ class MachinePanel(widgets.VBox):
                     key, _label, kind = ENTRIES[name]
                     number = _as_float(value, name)
                     new[key] = float(to_si(self.system, number, kind, new["ambient_pressure_Pa"]))
-                    if name in _ENTRY_SELECTS:
-                        k, v = _ENTRY_SELECTS[name]
-                        new[k] = v
+                    new.update(_selected_by(name))
                 elif name in CHOICES:
                     key, _label, options = CHOICES[name]
                     if value not in options:
@@ -645,9 +684,7 @@ class MachinePanel(widgets.VBox):
             for value in values_si:
                 trial = dict(self._inputs)
                 trial[key] = float(value)
-                if variable in _ENTRY_SELECTS:
-                    k, v = _ENTRY_SELECTS[variable]
-                    trial[k] = v
+                trial.update(_selected_by(variable))
                 row = {}
                 try:
                     res = compute(trial, self._fluids)
@@ -705,8 +742,7 @@ class MachinePanel(widgets.VBox):
             self._ambient_changed()
             return
         if entry.name in _ENTRY_SELECTS:
-            k, v = _ENTRY_SELECTS[entry.name]
-            self._inputs[k] = v
+            self._inputs.update(_selected_by(entry.name))
             self._refresh_choices()
         self._recalculate()
 
@@ -825,6 +861,7 @@ class MachinePanel(widgets.VBox):
         return text
 
     def _fail(self, exc):
+        self._show_usage()
         self.stale = self.result is not None
         self._set_message(describe_error(exc), error=True)
         self._mark_stale()
@@ -840,7 +877,13 @@ class MachinePanel(widgets.VBox):
         self.stale_note.value = ("<i style='color:#8a8a8a'>stale: these results belong to "
                                  "earlier inputs</i>" if self.stale else "")
 
+    def _show_usage(self):
+        used = entries_in_use(self._inputs)
+        for name in _OPTIONAL:
+            self.entries[name].label.style.text_color = None if name in used else "#9a9a9a"
+
     def _show_results(self):
+        self._show_usage()
         r = self.result
         for name, (_label, kind, get) in RESULTS.items():
             field = self.results[name]
