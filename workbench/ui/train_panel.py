@@ -133,6 +133,8 @@ class TrainPanel(widgets.VBox):
                                                  on_change=lambda _: self.recalculate(),
                                                  system=system)
                 self.entries[name].unit.value = _pretty(system, kind)
+                self.entries[name].label.layout.width = "210px"
+                self.entries[name].layout.width = "400px"
         self.compressor_box = widgets.VBox(
             [self.gas, self.stages, self.ratio_method]
             + [self.entries[n] for n in COMPRESSOR_ENTRIES])
@@ -272,6 +274,8 @@ class TrainPanel(widgets.VBox):
             branches.y = [from_si(self.system, s.state.h, "specific_enthalpy") for s in side]
             self.hs_chart.layout.xaxis.title = f"s [{s_unit}]"
             self.hs_chart.layout.yaxis.title = f"h [{h_unit}]"
+        _sync(self.power_bars)
+        _sync(self.hs_chart)
 
     def _station_table(self, train) -> str:
         sys_ = self.system
@@ -301,6 +305,24 @@ class TrainPanel(widgets.VBox):
                                          for v in values) + "</tr>")
         return "<table style='border-collapse:collapse;font-size:90%'>" + "".join(rows) + \
             "</table>"
+
+
+def _sync(fig):
+    """Put a FigureWidget's current data and layout into its model state.
+
+    In-place trace updates reach only views already drawn; a dashboard that draws the
+    widget later starts from the model state, so keep that current too.
+    """
+    import copy
+
+    try:
+        if fig.has_trait("_widget_data"):  # plotly >= 6
+            fig._widget_data = copy.deepcopy(fig._data)
+            fig._widget_layout = copy.deepcopy(fig._layout_obj._props)
+        elif fig.has_trait("_data"):  # plotly 5
+            fig.send_state(["_data", "_layout"])
+    except (AttributeError, TypeError):
+        pass
 
 
 def _plain(exc) -> str:
