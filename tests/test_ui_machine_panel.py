@@ -192,6 +192,9 @@ def test_sweep_rows_csv_and_gaps(panel):
     assert len(table) == 5
     assert math.isnan(table.iloc[0, 1]) and not math.isnan(table.iloc[-1, 1])
     assert "failed" in panel.sweep_note.value
+    trace = panel.sweep_figure.data[0]
+    assert len(panel.sweep_figure.data) == 1 and len(trace.y) == 5
+    assert trace.y[0] is None or math.isnan(trace.y[0])
 
 
 def test_mixture_fractions_must_sum_to_one_then_normalise(panel):

@@ -168,6 +168,7 @@ def make_process_figures(width: int = 560, height: int = 400):
                           title=dict(text=f"{y_title} vs entropy", font=dict(size=13)),
                           legend=dict(font=dict(size=10), orientation="h", y=-0.22),
                           template="simple_white")
+        sync_figure(fig)
         figures.append(fig)
     return figures
 
@@ -265,24 +266,28 @@ def update_process_figures(figures, points, system="bar, degC"):
 def make_sweep_figure(width: int = 700, height: int = 340):
     """An empty FigureWidget for sweep results."""
     fig = new_figure()
-    fig.update_layout(width=width, height=height, margin=dict(l=60, r=10, t=30, b=50),
+    fig.update_layout(width=width, height=height, margin=dict(l=60, r=60, t=30, b=90),
                       template="simple_white", title=dict(text="sweep", font=dict(size=13)))
+    sync_figure(fig)
     return fig
 
 
-def update_sweep_figure(fig, x, columns: dict, x_title: str):
-    """Show sweep columns against ``x`` (NaN rows are gaps); the figure object stays."""
-    with fig.batch_update():
-        fig.data = []
-        for i, (name, values) in enumerate(columns.items()):
-            fig.add_scatter(x=list(x), y=list(values), name=name, mode="lines+markers",
-                            connectgaps=False, yaxis="y" if i == 0 else "y2")
-        fig.layout.xaxis.title.text = x_title
-        names = list(columns)
-        fig.layout.yaxis.title.text = names[0] if names else ""
-        if len(names) > 1:
-            fig.update_layout(yaxis2=dict(overlaying="y", side="right",
-                                          title=dict(text=", ".join(names[1:]))))
-        else:
-            fig.update_layout(yaxis2=dict(overlaying="y", side="right", visible=False))
+def sweep_figure(x, columns: dict, x_title: str, width: int = 700, height: int = 340):
+    """A new FigureWidget of sweep columns against ``x`` (NaN rows are gaps).
+
+    A sweep runs on demand, so its figure is built whole with its data: a front end then
+    draws it from its initial state.
+    """
+    fig = make_sweep_figure(width, height)
+    names = list(columns)
+    for i, (name, values) in enumerate(columns.items()):
+        fig.add_scatter(x=list(x), y=list(values), name=name, mode="lines+markers",
+                        connectgaps=False, yaxis="y" if i == 0 else "y2")
+    fig.update_layout(
+        xaxis=dict(title=dict(text=x_title)),
+        yaxis=dict(title=dict(text=names[0] if names else "")),
+        yaxis2=dict(overlaying="y", side="right", visible=len(names) > 1,
+                    title=dict(text=", ".join(names[1:]))),
+        legend=dict(orientation="h", y=-0.3))
     sync_figure(fig)
+    return fig

@@ -444,7 +444,7 @@ class MachinePanel(widgets.VBox):
         self.sweep_button.add_class("wb-input-sweep-run")
         self.sweep_button.on_click(self._guard(lambda _b: self.run_sweep()))
         self.sweep_figure = charts.make_sweep_figure()
-        self.sweep_view = charts.figure_view(self.sweep_figure)
+        self.sweep_view = widgets.Box([charts.figure_view(self.sweep_figure)])
         self.sweep_note = widgets.HTML("")
         self.sweep_note.add_class("wb-result-sweep-note")
         self.sweep_link = widgets.HTML("")
@@ -710,8 +710,8 @@ class MachinePanel(widgets.VBox):
             columns[col] = table[col].tolist()
         self.sweep_table = table
         self.sweep_csv = table.to_csv(index=False)
-        charts.update_sweep_figure(self.sweep_figure, x_values, columns, x_col)
-        charts.refresh_view(self.sweep_view, self.sweep_figure)
+        self.sweep_figure = charts.sweep_figure(x_values, columns, x_col)
+        self.sweep_view.children = (charts.figure_view(self.sweep_figure),)
         encoded = base64.b64encode(self.sweep_csv.encode("utf-8")).decode("ascii")
         self.sweep_link.value = (f"<a download='sweep.csv' href='data:text/csv;base64,{encoded}'"
                                  " target='_blank'>download the table (CSV)</a>")
