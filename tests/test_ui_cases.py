@@ -79,3 +79,19 @@ def test_validate_case_raises_case_file_error():
                                 "inputs": {"machine": "fan"}})
     assert full["inputs"]["machine"] == "fan"
     assert set(full["inputs"]) == set(cases.DEFAULT_INPUTS)
+
+
+def test_upload_widget_and_download_link(panel):
+    import base64
+    import datetime
+
+    other = MachinePanel(case="turbine-demo")
+    other._refresh_case_link()
+    encoded = other.case_link.value.split("base64,")[1].split("'")[0]
+    assert json.loads(base64.b64decode(encoded)) == other.to_case()
+    data = json.dumps(panel.to_case()).encode("utf-8")
+    other.upload.value = ({"name": "case.json", "type": "application/json", "size": len(data),
+                           "content": memoryview(data),
+                           "last_modified": datetime.datetime(2026, 1, 1)},)
+    assert other.message.startswith("case loaded"), other.message
+    assert other.to_case() == panel.to_case()

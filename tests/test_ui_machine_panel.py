@@ -251,3 +251,16 @@ def test_typing_an_efficiency_makes_it_fix_the_outlet(panel):
     # the measured outlet temperature entry is now not used: its label is greyed
     assert panel.entries["outlet-temperature"].label.style.text_color == "#9a9a9a"
     assert panel.entries["isentropic-efficiency"].label.style.text_color is None
+
+
+def test_pump_matches_the_incompressible_closed_form():
+    p = MachinePanel(case="turbine-demo")
+    p.set_values(machine="pump", fluid="Water", **{
+        "inlet-pressure": 1.0, "inlet-temperature": 20.0, "outlet-pressure": 10.0,
+        "isentropic-efficiency": 70.0, "mass-flow": 5.0, "mechanical-efficiency": 100.0})
+    assert not p.stale, p.message
+    # incompressible liquid (common practice): P = m v dP / eta; v of water at 20 degC,
+    # 1 bar from IAPWS-IF97 via the iapws package
+    v = IAPWS97(P=0.1, T=293.15).v
+    expected_kw = 5.0 * v * 9e5 / 0.7 / 1e3
+    assert number(p.shown("power")) == pytest.approx(expected_kw, rel=2e-3)

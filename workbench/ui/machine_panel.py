@@ -823,6 +823,7 @@ class MachinePanel(widgets.VBox):
         item = files[0] if isinstance(files, (tuple, list)) else next(iter(files.values()))
         content = item["content"] if isinstance(item, dict) else item.content
         self.load_case(bytes(content))
+        self.upload.value = ()  # so the same file can be loaded again
 
     def _refresh_case_link(self):
         text = self.case_json()
