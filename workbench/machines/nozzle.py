@@ -18,8 +18,8 @@ Losses are given as an isentropic efficiency or, for a nozzle, a velocity coeffi
 References
 ----------
 The steady-flow energy and continuity equations of a control volume (common practice).
-S. L. Dixon, C. A. Hall, Fluid Mechanics and Thermodynamics of Turbomachinery, 7th ed.,
-Butterworth-Heinemann 2014, chapter 2 (nozzle and diffuser efficiency definitions).
+Nozzle and diffuser efficiencies as defined above are those of turbomachinery practice
+(common practice); the isentropic-flow relations of an ideal gas are used in the tests.
 """
 
 from __future__ import annotations
@@ -155,7 +155,8 @@ def nozzle(inlet: State, P_out, *, isentropic_efficiency=None, velocity_coeffici
 
     References
     ----------
-    Steady-flow energy equation (common practice); Dixon and Hall (2014), chapter 2.
+    Steady-flow energy equation and the efficiency definitions of the module notes (common
+    practice).
     """
     inlet = _check_state("nozzle inlet", inlet)
     P2 = _positive(P_out, "pressure", "nozzle outlet pressure", "Pa")
@@ -214,7 +215,8 @@ def diffuser(inlet: State, velocity_in, *, velocity_out=0.0, isentropic_efficien
 
     References
     ----------
-    Steady-flow energy equation (common practice); Dixon and Hall (2014), chapter 2.
+    Steady-flow energy equation and the efficiency definitions of the module notes (common
+    practice).
     """
     inlet = _check_state("diffuser inlet", inlet)
     V1 = _positive(velocity_in, "velocity", "diffuser inlet velocity", "m/s")
