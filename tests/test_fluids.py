@@ -160,3 +160,9 @@ def test_no_raw_library_text(water):
     assert "Water" in message and "h=" in message
     # the fluid object still works after a failed flash
     assert math.isfinite(water.state(P=1e5, T=300).h)
+
+
+def test_viscosity_of_water(water):
+    # Reference: IAPWS 2008 viscosity release via iapws.IAPWS95 (mu in Pa s).
+    st = water.state(P=1e5, T=293.15)
+    assert water.viscosity(st) == pytest.approx(iapws.IAPWS95(T=293.15, P=0.1).mu, rel=1e-4)

@@ -69,9 +69,13 @@ def test_random_ratings_fail_cleanly(P1, T1, P2, T2):
     except wb.WorkbenchError as exc:
         assert str(exc)
         return
-    _check(result)
     assert 0 < result.isentropic_efficiency <= 1
     assert result.power > 0
+    try:
+        # the polytropic path is integrated lazily; an extreme rating may leave the model range
+        _check(result)
+    except wb.WorkbenchError as exc:
+        assert str(exc)
 
 
 @pytest.mark.parametrize("value", ["abc", [1, 2], float("nan")])

@@ -8,6 +8,7 @@ they do not replace the equipment supplier's data, the applicable codes or a lic
 engineer's judgement.
 """
 
+from . import fieldtest  # noqa: E402
 from .errors import (
     CaseFileError,
     InputError,
@@ -16,8 +17,50 @@ from .errors import (
     SpecificationError,
     WorkbenchError,
 )
+from .fieldtest import (  # noqa: E402
+    DesignPoint,
+    InstrumentUncertainty,
+    affinity_correction,
+    compare_with_design,
+    evaluate,
+    monte_carlo_uncertainty,
+    propagate_uncertainty,
+    read_readings,
+    steady_state_flags,
+)
 from .fluids import Fluid, State, available_fluids, normalise_fractions
-from .machines import MachineResult, compressor, energy_balance, fan, pump, turbine
+from .machines import (
+    MachineResult,
+    compressor,
+    cooler,
+    diffuser,
+    energy_balance,
+    fan,
+    heat_exchanger,
+    mixer,
+    nozzle,
+    npsh_available,
+    pipe_segment,
+    pump,
+    splitter,
+    throttle,
+    turbine,
+)
+from .trains import (  # noqa: E402  (trains build on the machines above)
+    Admission,
+    CompressorStage,
+    Cooler,
+    Extraction,
+    PipeRun,
+    PressureLoss,
+    PumpStage,
+    ThrottleValve,
+    Train,
+    TrainResult,
+    TurbineSection,
+    extraction_turbine,
+    intercooled_compressor,
+)
 from .units import Q_, UNIT_SYSTEMS, ureg
 
 __version__ = "0.1.0"
@@ -33,4 +76,12 @@ __all__ = [
     "ReadingsError", "SAFETY_CAUTION", "SpecificationError", "State", "UNIT_SYSTEMS",
     "WorkbenchError", "available_fluids", "compressor", "energy_balance", "fan",
     "normalise_fractions", "pump", "turbine", "ureg",
+    "cooler", "diffuser", "heat_exchanger", "mixer", "npsh_available", "nozzle", "pipe_segment",
+    "splitter", "throttle",
+    "Admission", "CompressorStage", "Cooler", "Extraction", "PipeRun", "PressureLoss", "PumpStage",
+    "ThrottleValve", "Train", "TrainResult", "TurbineSection", "extraction_turbine",
+    "intercooled_compressor",
+    "fieldtest", "DesignPoint", "InstrumentUncertainty", "affinity_correction",
+    "compare_with_design", "evaluate", "monte_carlo_uncertainty", "propagate_uncertainty",
+    "read_readings", "steady_state_flags",
 ]

@@ -505,6 +505,24 @@ class Fluid:
             raise PropertyError(f"the property model returned an invalid state of {self.name}")
         return State(self, P, T, h, s, rho, x, cp, phase_word)
 
+    def viscosity(self, state: State) -> float:
+        """Dynamic viscosity [Pa s] at a single-phase state.
+
+        Raises PropertyError for two-phase states and where the property library has no
+        viscosity model for the fluid (many mixtures).
+        """
+        if state.x is not None:
+            raise PropertyError(f"viscosity of {self.name} is not defined inside the two-phase "
+                                f"region (quality {state.x:.4g})")
+        self._flash(CP.PT_INPUTS, state.P, state.T, f"P={state.P:.6g} Pa, T={state.T:.6g} K")
+        try:
+            value = self._as.viscosity()
+        except Exception:
+            value = float("nan")
+        if not (math.isfinite(value) and value > 0):
+            raise PropertyError(f"the property library has no viscosity model for {self.name}")
+        return value
+
     def speed_of_sound(self, state: State) -> float:
         """Speed of sound [m/s] at a single-phase state (NaN inside the two-phase region)."""
         if state.x is not None:

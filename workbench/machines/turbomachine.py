@@ -468,7 +468,10 @@ def energy_balance(kind: str, inlet: State, outlet: State | None = None, *, P_ou
     shaft_power = fluid_power / eta_m if raises else fluid_power * eta_m
 
     eff_static = _isentropic_eff(inlet.h, outlet.h, iso.h, raises)
-    iso0 = fluid.state_Ps(outlet0.P, inlet0.s, T_guess=iso.T)
+    if inlet0 is inlet and outlet0 is outlet:
+        iso0 = iso  # no kinetic terms: stagnation and static states coincide
+    else:
+        iso0 = fluid.state_Ps(outlet0.P, inlet0.s, T_guess=iso.T)
     eff_total = _isentropic_eff(inlet0.h, outlet0.h, iso0.h, raises)
     eff_ts = math.nan if raises else (inlet0.h - outlet0.h) / (inlet0.h - iso.h)
     chosen = eff_total if basis == "total" else eff_static
