@@ -203,7 +203,7 @@ def main() -> int:
         finally:
             server.terminate()
             try:
-                server.wait(timeout=15)
+                server.wait(timeout=45)
             except subprocess.TimeoutExpired:
                 server.kill()
 

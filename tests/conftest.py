@@ -87,7 +87,7 @@ def served_dashboards():
     finally:
         process.terminate()
         try:
-            process.wait(timeout=15)
+            process.wait(timeout=45)
         except subprocess.TimeoutExpired:
             process.kill()
             process.wait()

@@ -148,3 +148,14 @@ def test_dashboard_names_put_the_machines_first(tmp_path):
         (tmp_path / name).write_text("{}")
     assert cli.dashboard_names(tmp_path) == ["compressor.ipynb", "turbine.ipynb",
                                              "a-extra.ipynb"]
+
+
+def test_stop_process_ends_the_child():
+    """What ``workbench serve`` does with its Voila child on SIGTERM or Ctrl-C."""
+    child = subprocess.Popen([sys.executable, "-c", "import time; time.sleep(120)"])
+    try:
+        assert cli.stop_process(child, timeout=10) != 0  # ended by a signal
+        assert child.poll() is not None
+    finally:
+        if child.poll() is None:
+            child.kill()

@@ -14,6 +14,7 @@ Voila documentation, "Customizing Voila" (configuration options ``strip_sources`
 from __future__ import annotations
 
 import argparse
+import signal
 import socket
 import subprocess
 import sys
@@ -160,18 +161,35 @@ def serve(host: str, port: int, open_browser: bool) -> int:
         print("  " + url)
     print(SAFETY_CAUTION, flush=True)
     process = subprocess.Popen(argv)
+    previous = None
+    if threading.current_thread() is threading.main_thread():
+        # a plain kill of this command stops Voila and its kernels too (no orphans)
+        previous = signal.signal(signal.SIGTERM, _raise_interrupt)
     try:
         if open_browser:
             threading.Thread(target=_open_when_ready, args=(urls[0], port, process),
                              daemon=True).start()
         return process.wait()
     except KeyboardInterrupt:
+        return stop_process(process)
+    finally:
+        if previous is not None:
+            signal.signal(signal.SIGTERM, previous)
+
+
+def _raise_interrupt(signum, frame):
+    raise KeyboardInterrupt
+
+
+def stop_process(process: subprocess.Popen, timeout: float = 30.0) -> int:
+    """Terminate ``process`` (Voila shuts its kernels down), kill it after ``timeout`` [s]."""
+    if process.poll() is None:
         process.terminate()
-        try:
-            return process.wait(timeout=10)
-        except subprocess.TimeoutExpired:
-            process.kill()
-            return process.wait()
+    try:
+        return process.wait(timeout=timeout)
+    except subprocess.TimeoutExpired:
+        process.kill()
+        return process.wait()
 
 
 def wait_for_port(port: int, host: str = DEFAULT_HOST, timeout: float = 60.0,
