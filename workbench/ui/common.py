@@ -280,9 +280,9 @@ def message_area() -> widgets.HTML:
 def caution_banner(text: str) -> widgets.HTML:
     """A neutral banner with the safety caution (class ``wb-caution``)."""
     w = widgets.HTML(
-        f"<div style='border:1px solid #999;padding:4px 8px;background:#f6f6f2;"
-        f"font-size:90%'><b>Caution.</b> {html.escape(text)}</div>",
-        layout=widgets.Layout(width="100%"))
+        f"<div style='box-sizing:border-box;border:1px solid #999;padding:4px 8px;"
+        f"background:#f6f6f2;font-size:90%'><b>Caution.</b> {html.escape(text)}</div>",
+        layout=widgets.Layout(width="auto", max_width="100%"))
     w.add_class("wb-caution")
     return w
 

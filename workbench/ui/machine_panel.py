@@ -165,7 +165,9 @@ RESULTS = {
     "schultz-factor": ("Schultz factor", "dimensionless", lambda r: r.schultz_factor),
     "polytropic-head": ("polytropic head", "specific_enthalpy", lambda r: r.polytropic_head),
     "isentropic-head": ("isentropic head", "specific_enthalpy", lambda r: r.isentropic_head),
-    "pressure-ratio": ("pressure ratio", "dimensionless", lambda r: r.pressure_ratio),
+    # quoted as high over low pressure, so a turbine shows its expansion ratio (common practice)
+    "pressure-ratio": ("pressure ratio (high / low)", "dimensionless",
+                       lambda r: max(r.pressure_ratio, 1.0 / r.pressure_ratio)),
     "outlet-pressure": ("outlet pressure", "pressure", lambda r: r.outlet.P),
     "outlet-temperature": ("outlet temperature", "temperature", lambda r: r.outlet.T),
     "outlet-quality": ("outlet quality", "dimensionless", lambda r: _quality(r.outlet)),
