@@ -166,3 +166,16 @@ def test_viscosity_of_water(water):
     # Reference: IAPWS 2008 viscosity release via iapws.IAPWS95 (mu in Pa s).
     st = water.state(P=1e5, T=293.15)
     assert water.viscosity(st) == pytest.approx(iapws.IAPWS95(T=293.15, P=0.1).mu, rel=1e-4)
+
+
+def test_saturation_curve_matches_iapws97(water_if97):
+    # Reference: IAPWS-IF97 saturation states via iapws.IAPWS97(P, x).
+    curve = water_if97.saturation_curve(points=8)
+    assert len(curve) == 16
+    # Compared below 16.5 MPa (regions 1 and 2, T_sat < 623.15 K): near the critical point, in
+    # region 3, the property library's IF97 and `iapws` differ by up to ~0.3 % in h.
+    for st, x in [(st, 0) for st in curve[:8]] + [(st, 1) for st in curve[8:]]:
+        if st.P < 16.5e6:
+            assert st.h == pytest.approx(iapws.IAPWS97(P=st.P / 1e6, x=x).h * 1e3, rel=1e-6)
+    isobar = water_if97.isobar(1e5, curve[0].s, curve[-1].s, points=5)
+    assert all(st is None or st.P == pytest.approx(1e5) for st in isobar)

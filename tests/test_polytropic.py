@@ -60,3 +60,14 @@ def test_rating_inverts_prediction_for_steam():
     assert eta == pytest.approx(0.83, abs=1e-5)
     assert head == pytest.approx((inlet.h - out.h) / eta, rel=1e-5)
     assert math.isfinite(head)
+
+
+def test_path_states_follow_closed_form(argon):
+    # Every point of the drawn path obeys T/T1 = (P/P1)^((k-1)/(k eta_p)) for a perfect gas.
+    from workbench.polytropic import polytropic_path
+
+    inlet = argon.state(P=0.2e5, T=300.0)
+    states = polytropic_path(inlet, 0.8e5, 0.8, points=6)
+    assert len(states) == 7 and states[-1].P == pytest.approx(0.8e5)
+    for st in states:
+        assert st.T == pytest.approx(300.0 * (st.P / 0.2e5) ** (0.4 / 0.8), rel=3e-4)

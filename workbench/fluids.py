@@ -392,6 +392,48 @@ class Fluid:
         return st, slope
 
     # ------------------------------------------------------------------ saturation
+    def saturation_curve(self, points: int = 40) -> list[State]:
+        """The saturation dome: saturated-liquid states upwards, then saturated vapour down.
+
+        Pressures are log-spaced from just above the triple point to 0.995 of the critical
+        pressure; pressures the model cannot resolve are left out.  Mixtures give an empty
+        list.  Cached per fluid object.
+        """
+        if self.is_mixture:
+            return []
+        cache = self.__dict__.setdefault("_curve_cache", {})
+        if points not in cache:
+            lo = max(self.P_triple * 1.01, 1.0)
+            hi = self.P_critical * 0.995
+            liquid, vapour = [], []
+            for k in range(points):
+                P = lo * (hi / lo) ** (k / max(points - 1, 1))
+                try:
+                    sl, sv = self.saturation_states(P)
+                except PropertyError:
+                    continue
+                liquid.append(sl)
+                vapour.append(sv)
+            cache[points] = liquid + vapour[::-1]
+        return list(cache[points])
+
+    def isobar(self, P: float, s_low: float, s_high: float, points: int = 16) -> list:
+        """States along an isobar at P [Pa] between two entropies [J/(kg K)].
+
+        Entries the property model cannot resolve are ``None`` (a gap on a chart).
+        """
+        out, guess = [], None
+        for k in range(points):
+            s = s_low + (s_high - s_low) * k / max(points - 1, 1)
+            try:
+                st = self.state_Ps(P, s, T_guess=guess)
+            except PropertyError:
+                out.append(None)
+                continue
+            out.append(st)
+            guess = st.T
+        return out
+
     def saturation_states(self, P: float) -> tuple[State, State]:
         """Saturated liquid and saturated vapour states at pressure P [Pa] (pure fluids).
 

@@ -105,7 +105,7 @@ def schultz(inlet: State, outlet: State, isentropic_outlet: State) -> SchultzRes
     return SchultzResult(n_s, n, f, abs(head), eta)
 
 
-def _path(inlet: State, P_out: float, efficiency: float, steps: int):
+def _path(inlet: State, P_out: float, efficiency: float, steps: int, stations=None):
     """Integrate the constant-efficiency polytropic path; return (h_end, T_end, head).
 
     The path obeys T ds = (1/eta - 1) v dP for compression and (eta - 1) v dP for expansion,
@@ -129,9 +129,12 @@ def _path(inlet: State, P_out: float, efficiency: float, steps: int):
             return [factor * P * st.v, P * st.v]
 
         sol = solve_ivp(rhs_pure, (x0, x1), [inlet.h, 0.0], method="RK45", rtol=1e-10,
-                        atol=[1e-6, 1e-6])
+                        atol=[1e-6, 1e-6], t_eval=None if stations is None else
+                        [x0 + (x1 - x0) * k / steps for k in range(steps + 1)])
         if not sol.success:
             raise PropertyError("the polytropic path integration did not converge")
+        if stations is not None:
+            stations.extend((math.exp(x), h) for x, h in zip(sol.t, sol.y[0]))
         return float(sol.y[0, -1]), math.nan, float(sol.y[1, -1])
 
     # Mixtures: path variable T, dT/dlnP = P (factor v - (dh/dP)_T) / cp; head integrand P v.
@@ -144,6 +147,8 @@ def _path(inlet: State, P_out: float, efficiency: float, steps: int):
     y = inlet.T
     head = 0.0
     x = x0
+    if stations is not None:
+        stations.append((inlet.P, y))
     for _ in range(steps):
         k1, g1 = rhs(x, y)
         k2, g2 = rhs(x + dx / 2, y + dx / 2 * k1)
@@ -152,6 +157,8 @@ def _path(inlet: State, P_out: float, efficiency: float, steps: int):
         y += dx / 6 * (k1 + 2 * k2 + 2 * k3 + k4)
         head += dx / 6 * (g1 + 2 * g2 + 2 * g3 + g4)
         x += dx
+        if stations is not None:
+            stations.append((math.exp(x), y))
     end = fluid.gas_path_point(P_out, y)[0]
     return end.h, end.T, head
 
@@ -251,3 +258,37 @@ def polytropic_efficiency(inlet: State, outlet: State, guess: float | None = Non
         if abs(eta_new - eta_prev) <= tolerance or steps >= 512:
             return eta_new, abs(head), steps
         eta_prev = eta_new
+
+
+def polytropic_path(inlet: State, P_out: float, efficiency: float, points: int = 12) -> list:
+    """States along the constant-efficiency polytropic path, e.g. to draw it on a chart.
+
+    Uses the same integration as :func:`polytropic_outlet`, recorded at ``points`` equal
+    steps in ln P.
+
+    Parameters
+    ----------
+    inlet : State
+        Start of the path.
+    P_out : float
+        End pressure [Pa].
+    efficiency : float
+        Polytropic efficiency [-] in (0, 1].
+    points : int
+        Number of steps; the list holds ``points + 1`` states, inlet first.
+
+    Returns
+    -------
+    list of State
+    """
+    fluid = inlet.fluid
+    stations: list = []
+    steps = max(int(points), 1)
+    _path(inlet, P_out, efficiency, steps, stations)
+    states = [inlet]
+    for P, y in stations[1:]:
+        if fluid.is_mixture:
+            states.append(fluid.gas_path_point(P, y)[0])
+        else:
+            states.append(fluid.state_Ph(P, y))
+    return states

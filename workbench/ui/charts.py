@@ -1,15 +1,9 @@
 """Process charts of the machine panel: h-s and T-s diagrams as plotly FigureWidgets.
 
-The point helpers are pure functions over a :class:`~workbench.fluids.Fluid` and a
-:class:`~workbench.machines.MachineResult` in SI units; they use only the public state
-methods of the fluid (``saturation_states``, ``state_Ps``, ``state_Ph``).  The figures are
+The point helpers only turn states from the calculation layer (``Fluid.saturation_curve``,
+``Fluid.isobar``, ``polytropic.polytropic_path``) into arrays for plotting.  The figures are
 built once with a fixed set of traces; :func:`update_process_figures` changes the traces in
 place inside ``batch_update`` so a front end only redraws.
-
-References
-----------
-Polytropic path of constant efficiency: ``dh = v dP / eta_p`` (compression),
-``dh = eta_p v dP`` (expansion); see ASME PTC 10-1997, section 5.
 """
 
 from __future__ import annotations
@@ -20,102 +14,38 @@ import numpy as np
 import plotly.graph_objects as go
 
 from ..errors import WorkbenchError
+from ..polytropic import polytropic_path
 from .common import from_si, unit_label
 
 #: Trace order of each process figure.
 TRACE_NAMES = ("saturation dome", "inlet isobar", "outlet isobar", "polytropic path",
                "isentropic line", "inlet / outlet", "isentropic end")
 
-_DOME_CACHE: dict = {}
+def _arrays(states):
+    """(s, h, T) arrays in SI units of a list of states; ``None`` entries become NaN."""
+    rows = [(st.s, st.h, st.T) if st is not None else (math.nan,) * 3 for st in states]
+    arr = np.array(rows, dtype=float).reshape(-1, 3)
+    return arr[:, 0], arr[:, 1], arr[:, 2]
 
 
 def dome_points(fluid, points: int = 40):
-    """Saturation dome of a pure fluid, liquid branch up and vapour branch down.
-
-    Parameters
-    ----------
-    fluid : Fluid
-        A pure fluid (mixtures give empty arrays).
-    points : int
-        Pressures per branch, log-spaced from just above the triple point to 0.995 of the
-        critical pressure.
-
-    Returns
-    -------
-    tuple of numpy.ndarray
-        ``(s, h, T)`` in J/(kg K), J/kg, K; cached per fluid.
-    """
-    if fluid.is_mixture:
-        return np.array([]), np.array([]), np.array([])
-    key = (fluid.components, fluid.backend, points)
-    if key in _DOME_CACHE:
-        return _DOME_CACHE[key]
-    lo = max(getattr(fluid, "P_triple", 1.0) * 1.01, 1.0)
-    hi = fluid.P_critical * 0.995
-    liquid, vapour = [], []
-    for P in np.geomspace(lo, hi, points):
-        try:
-            sl, sv = fluid.saturation_states(float(P))
-        except WorkbenchError:
-            continue
-        liquid.append((sl.s, sl.h, sl.T))
-        vapour.append((sv.s, sv.h, sv.T))
-    rows = liquid + vapour[::-1]
-    arr = np.array(rows, dtype=float).reshape(-1, 3)
-    out = (arr[:, 0], arr[:, 1], arr[:, 2])
-    _DOME_CACHE[key] = out
-    return out
+    """Saturation dome of a pure fluid as ``(s, h, T)`` arrays (empty for mixtures)."""
+    return _arrays(fluid.saturation_curve(points))
 
 
-def isobar_points(fluid, pressure: float, s_low: float, s_high: float, points: int = 16,
-                  T_guess: float | None = None):
-    """States along an isobar between two entropies; points that fail are NaN (a gap).
-
-    Returns ``(s, h, T)`` arrays in SI units.
-    """
-    s_values = np.linspace(s_low, s_high, points)
-    h_values = np.full(points, math.nan)
-    T_values = np.full(points, math.nan)
-    guess = T_guess
-    for i, s in enumerate(s_values):
-        try:
-            st = fluid.state_Ps(float(pressure), float(s), T_guess=guess)
-        except WorkbenchError:
-            continue
-        h_values[i], T_values[i] = st.h, st.T
-        guess = st.T
-    return s_values, h_values, T_values
+def isobar_points(fluid, pressure: float, s_low: float, s_high: float, points: int = 16):
+    """``(s, h, T)`` arrays along an isobar; points the model cannot resolve are NaN."""
+    return _arrays(fluid.isobar(float(pressure), float(s_low), float(s_high), points))
 
 
 def polytropic_path_points(result, efficiency: float | None = None, steps: int = 12):
-    """Points of the constant-efficiency polytropic path from inlet to outlet pressure.
-
-    Steps in ln P with a midpoint (second-order) rule on ``dh = v dP / eta`` (compression) or
-    ``dh = eta v dP`` (expansion), starting at the static inlet state.
-
-    Returns ``(s, h, T)`` arrays in SI units, NaN where a state could not be found.
-    """
+    """``(s, h, T)`` arrays of the result's polytropic path from inlet to outlet pressure."""
     eta = result.polytropic_efficiency if efficiency is None else efficiency
-    inlet = result.inlet
-    fluid = inlet.fluid
-    raises = result.outlet.P > inlet.P
-    pressures = np.geomspace(inlet.P, result.outlet.P, steps + 1)
-    s_out, h_out, T_out = [inlet.s], [inlet.h], [inlet.T]
-    state = inlet
-    for P_next in pressures[1:]:
-        P_now = state.P
-        try:
-            factor = (1.0 / eta) if raises else eta
-            h_mid = state.h + factor * state.v * (P_next - P_now) / 2
-            mid = fluid.state_Ph(float((P_now + P_next) / 2), h_mid, T_guess=state.T)
-            h_next = state.h + factor * mid.v * (P_next - P_now)
-            state = fluid.state_Ph(float(P_next), h_next, T_guess=mid.T)
-        except WorkbenchError:
-            break
-        s_out.append(state.s)
-        h_out.append(state.h)
-        T_out.append(state.T)
-    return np.array(s_out), np.array(h_out), np.array(T_out)
+    try:
+        states = polytropic_path(result.inlet, result.outlet.P, eta, steps)
+    except WorkbenchError:
+        states = [result.inlet]
+    return _arrays(states)
 
 
 def new_figure():
@@ -193,8 +123,8 @@ def process_points(result, path_steps: int = 12):
     s_lo, s_hi = s_lo - 0.15 * span, s_hi + 0.15 * span
     pts = {
         "dome": dome_points(fluid),
-        "inlet isobar": isobar_points(fluid, a.P, s_lo, s_hi, T_guess=a.T),
-        "outlet isobar": isobar_points(fluid, b.P, s_lo, s_hi, T_guess=b.T),
+        "inlet isobar": isobar_points(fluid, a.P, s_lo, s_hi),
+        "outlet isobar": isobar_points(fluid, b.P, s_lo, s_hi),
         "path": polytropic_path_points(result, steps=path_steps),
         "isentropic": (np.array([a.s, iso.s]), np.array([a.h, iso.h]), np.array([a.T, iso.T])),
         "ends": (np.array([a.s, b.s]), np.array([a.h, b.h]), np.array([a.T, b.T])),
