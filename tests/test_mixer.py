@@ -81,3 +81,15 @@ def test_mixer_refuses_bad_streams():
     with pytest.raises(InputError, match="mixer outlet pressure"):
         mixer([(WATER.state_PT(5e5, 300.0), 1.0), (WATER.state_PT(4e5, 300.0), 1.0)],
               P_out=4.5e5)
+
+
+def test_splitter_values_that_are_not_a_list_are_refused():
+    # A bad input raises the project's own error naming the input, never a raw TypeError
+    # (project convention, DEVELOPERS.md).
+    inlet = STEAM.state_PT(20e5, 573.15)
+    with pytest.raises(InputError, match="splitter split fractions must be a list"):
+        splitter(inlet, 10.0, fractions=0.5)
+    with pytest.raises(InputError, match="splitter branch mass flows must be a list"):
+        splitter(inlet, 10.0, branch_mass_flows=3.0)
+    with pytest.raises(InputError, match="mixer streams must be a list"):
+        mixer(5.0)

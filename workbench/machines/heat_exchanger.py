@@ -28,7 +28,7 @@ from dataclasses import dataclass
 from ..errors import InputError, SpecificationError
 from ..fluids import Fluid, State
 from ..units import optional_si, to_si
-from .throttle import _check_state, _positive, _quality
+from .throttle import _check_state, _not_negative, _positive, _quality
 
 
 @dataclass(frozen=True, eq=False)
@@ -189,9 +189,7 @@ def heat_exchanger(hot_inlet: State, hot_mass_flow, cold_inlet: State, cold_mass
         raise SpecificationError(
             "a heat exchanger needs exactly one of: the hot outlet temperature, the cold outlet "
             f"temperature or the duty; got {' and '.join(given) if given else 'none of them'}")
-    loss = to_si(heat_loss, "heat_flow", "heat exchanger heat loss")
-    if loss < 0:
-        raise InputError(f"heat exchanger heat loss {loss:g} W must not be negative")
+    loss = _not_negative(heat_loss, "heat_flow", "heat exchanger heat loss", "W")
     if not hot_inlet.T > cold_inlet.T:
         raise InputError(
             f"hot inlet temperature {hot_inlet.T:.6g} K is not above the cold inlet temperature "
@@ -200,6 +198,9 @@ def heat_exchanger(hot_inlet: State, hot_mass_flow, cold_inlet: State, cold_mass
     P_c2, dP_c = _outlet_pressure("cold side", cold_inlet, cold_pressure_drop)
     hot_fluid, cold_fluid = hot_inlet.fluid, cold_inlet.fluid
 
+    # The given outlet temperature (or the duty) fixes Q; each outlet not fixed by a
+    # temperature then follows from its side's balance.
+    hot_outlet = cold_outlet = None
     if T_h2 is not None:
         if not cold_inlet.T <= T_h2 < hot_inlet.T:
             raise InputError(
@@ -212,7 +213,6 @@ def heat_exchanger(hot_inlet: State, hot_mass_flow, cold_inlet: State, cold_mass
             raise SpecificationError(
                 f"the heat loss {loss:g} W is not less than the heat released by the hot "
                 f"stream {released:g} W: nothing is left for the cold stream")
-        cold_outlet = cold_fluid.state_Ph(P_c2, cold_inlet.h + Q / m_c, T_guess=cold_inlet.T)
     elif T_c2 is not None:
         if not cold_inlet.T < T_c2 <= hot_inlet.T:
             raise InputError(
@@ -220,12 +220,13 @@ def heat_exchanger(hot_inlet: State, hot_mass_flow, cold_inlet: State, cold_mass
                 f"{hot_inlet.T:.6g}] K: above the cold inlet, not above the hot inlet")
         cold_outlet = cold_fluid.state_PT(P_c2, T_c2)
         Q = m_c * (cold_outlet.h - cold_inlet.h)
-        hot_outlet = hot_fluid.state_Ph(P_h2, hot_inlet.h - (Q + loss) / m_h,
-                                        T_guess=hot_inlet.T)
-    else:
-        if not Q > 0:
-            raise InputError(f"heat exchanger duty {Q:g} W must be positive")
+    elif not Q > 0:
+        raise InputError(f"heat exchanger duty {Q:g} W must be positive")
+    if cold_outlet is None:
+        # m_cold (h_cold,out - h_cold,in) = duty
         cold_outlet = cold_fluid.state_Ph(P_c2, cold_inlet.h + Q / m_c, T_guess=cold_inlet.T)
+    if hot_outlet is None:
+        # m_hot (h_hot,in - h_hot,out) = duty + heat_loss
         hot_outlet = hot_fluid.state_Ph(P_h2, hot_inlet.h - (Q + loss) / m_h,
                                         T_guess=hot_inlet.T)
     dt_hot_end = hot_inlet.T - cold_outlet.T
@@ -350,19 +351,18 @@ def cooler(inlet: State, mass_flow, outlet_temperature, *, pressure_drop=0.0,
         raise SpecificationError("give both cooling water temperatures (inlet and outlet) "
                                  "or neither")
     P2, dP = _outlet_pressure("cooler", inlet, pressure_drop)
-    if tw1 is None:
-        outlet = inlet.fluid.state_PT(P2, T2)
-        duty = m * (inlet.h - outlet.h)
-        return CoolerResult(inlet=inlet, outlet=outlet, mass_flow=m, duty=duty,
-                            pressure_drop=dP, cooling_water_mass_flow=math.nan)
-    if not tw2 > tw1:
-        raise InputError(f"cooling water outlet temperature {tw2:.6g} K must be above its "
-                         f"inlet temperature {tw1:.6g} K")
-    Pw = _positive(cooling_water_pressure, "pressure", "cooling water pressure", "Pa")
-    water = _water()
-    w_in, w_out = water.state_PT(Pw, tw1), water.state_PT(Pw, tw2)
+    if tw1 is not None:
+        if not tw2 > tw1:
+            raise InputError(f"cooling water outlet temperature {tw2:.6g} K must be above its "
+                             f"inlet temperature {tw1:.6g} K")
+        Pw = _positive(cooling_water_pressure, "pressure", "cooling water pressure", "Pa")
+        water = _water()
+        w_in, w_out = water.state_PT(Pw, tw1), water.state_PT(Pw, tw2)
     outlet = inlet.fluid.state_PT(P2, T2)
     duty = m * (inlet.h - outlet.h)
+    if tw1 is None:
+        return CoolerResult(inlet=inlet, outlet=outlet, mass_flow=m, duty=duty,
+                            pressure_drop=dP, cooling_water_mass_flow=math.nan)
     m_w = duty / (w_out.h - w_in.h)
     hx = heat_exchanger(inlet, m, w_in, m_w, hot_outlet_temperature=T2,
                         hot_pressure_drop=dP)

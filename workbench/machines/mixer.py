@@ -119,6 +119,30 @@ class SplitterResult:
         return d
 
 
+def _listed(values, message: str) -> list:
+    """``values`` as a list; ``message`` says what was expected when it is not a sequence."""
+    try:
+        return list(values)
+    except TypeError:
+        raise InputError(message) from None
+
+
+def _fraction_flow(i: int, value, mass_flow: float) -> float:
+    """Mass flow [kg/s] of branch ``i`` from its split fraction [-] of ``mass_flow``."""
+    f = to_si(value, "dimensionless", f"split fraction of branch {i}")
+    if not 0.0 <= f <= 1.0:
+        raise InputError(f"split fraction of branch {i} is {f:g}; it must lie in [0, 1]")
+    return f * mass_flow
+
+
+def _branch_flow(i: int, value, mass_flow: float) -> float:
+    """Mass flow [kg/s] of branch ``i`` as given (``mass_flow`` is not needed)."""
+    b = to_si(value, "mass_flow", f"mass flow of branch {i}")
+    if b < 0:
+        raise InputError(f"mass flow of branch {i} is {b:g} kg/s; it must not be negative")
+    return b
+
+
 def mixer(streams: Sequence, *, P_out=None, heat_loss=0.0) -> MixerResult:
     """Adiabatic (or heat-losing) mixing of several streams of one fluid.
 
@@ -148,10 +172,7 @@ def mixer(streams: Sequence, *, P_out=None, heat_loss=0.0) -> MixerResult:
     ----------
     Steady-flow mass and energy balances (common practice).
     """
-    try:
-        items = list(streams)
-    except TypeError:
-        raise InputError("mixer streams must be a list of (State, mass flow) pairs") from None
+    items = _listed(streams, "mixer streams must be a list of (State, mass flow) pairs")
     if len(items) < 2:
         raise InputError(f"a mixer needs at least 2 inlet streams, got {len(items)}")
     states, flows = [], []
@@ -225,27 +246,11 @@ def splitter(inlet: State, mass_flow, *, fractions=None, branch_mass_flows=None)
         raise SpecificationError("give the splitter branch fractions or the branch mass flows "
                                  "(exactly one of them)")
     if fractions is not None:
-        values = []
-        for i, f in enumerate(fractions, start=1):
-            if f is None:
-                values.append(None)
-                continue
-            f = to_si(f, "dimensionless", f"split fraction of branch {i}")
-            if not 0.0 <= f <= 1.0:
-                raise InputError(f"split fraction of branch {i} is {f:g}; it must lie in [0, 1]")
-            values.append(f * m)
-        what = "split fractions"
+        given, what, flow_of = fractions, "split fractions", _fraction_flow
     else:
-        values = []
-        for i, b in enumerate(branch_mass_flows, start=1):
-            if b is None:
-                values.append(None)
-                continue
-            b = to_si(b, "mass_flow", f"mass flow of branch {i}")
-            if b < 0:
-                raise InputError(f"mass flow of branch {i} is {b:g} kg/s; it must not be negative")
-            values.append(b)
-        what = "branch mass flows"
+        given, what, flow_of = branch_mass_flows, "branch mass flows", _branch_flow
+    given = _listed(given, f"the splitter {what} must be a list with one value per branch")
+    values = [None if v is None else flow_of(i, v, m) for i, v in enumerate(given, start=1)]
     if len(values) < 2:
         raise InputError(f"a splitter needs at least 2 branches, got {len(values)}")
     missing = [i for i, v in enumerate(values) if v is None]

@@ -30,7 +30,7 @@ from dataclasses import dataclass
 from ..errors import InputError, SpecificationError
 from ..fluids import State
 from ..units import to_si
-from .throttle import _check_state, _positive, _quality
+from .throttle import _check_below_inlet, _check_state, _not_negative, _positive, _quality
 
 
 @dataclass(frozen=True, eq=False)
@@ -115,6 +115,12 @@ def _efficiency(name, value):
     return value
 
 
+def _inlet_and_flow(kind, inlet, mass_flow):
+    """Checked inlet state and mass flow [kg/s] of a nozzle or diffuser."""
+    return (_check_state(f"{kind} inlet", inlet),
+            _positive(mass_flow, "mass_flow", f"{kind} mass flow", "kg/s"))
+
+
 def _finish(kind, inlet, outlet, iso, m, V1, V2, eta):
     A1, A2 = _area(m, inlet.rho, V1), _area(m, outlet.rho, V2)
     a2 = outlet.fluid.speed_of_sound(outlet)
@@ -155,15 +161,12 @@ def nozzle(inlet: State, P_out, *, isentropic_efficiency=None, velocity_coeffici
 
     References
     ----------
-    Steady-flow energy equation and the efficiency definitions of the module notes (common
-    practice).
+    Steady-flow energy equation; the nozzle efficiency and velocity coefficient as defined
+    in the module notes (common practice).
     """
-    inlet = _check_state("nozzle inlet", inlet)
+    inlet, m = _inlet_and_flow("nozzle", inlet, mass_flow)
     P2 = _positive(P_out, "pressure", "nozzle outlet pressure", "Pa")
-    m = _positive(mass_flow, "mass_flow", "nozzle mass flow", "kg/s")
-    V1 = to_si(velocity_in, "velocity", "nozzle inlet velocity")
-    if V1 < 0:
-        raise InputError(f"nozzle inlet velocity {V1:g} m/s must not be negative")
+    V1 = _not_negative(velocity_in, "velocity", "nozzle inlet velocity", "m/s")
     if isentropic_efficiency is not None and velocity_coefficient is not None:
         raise SpecificationError("give the nozzle isentropic efficiency or its velocity "
                                  "coefficient, not both")
@@ -173,11 +176,8 @@ def nozzle(inlet: State, P_out, *, isentropic_efficiency=None, velocity_coeffici
         eta = _efficiency("nozzle isentropic efficiency", isentropic_efficiency)
     else:
         eta = 1.0
-    if not P2 < inlet.P:
-        raise InputError(
-            f"nozzle outlet pressure {P2 / 1e5:.6g} bar is not below the inlet pressure "
-            f"{inlet.P / 1e5:.6g} bar: a nozzle accelerates the flow by lowering pressure "
-            "(use diffuser for the reverse)")
+    _check_below_inlet("nozzle", P2, inlet, "a nozzle accelerates the flow by lowering "
+                       "pressure (use diffuser for the reverse)")
     fluid = inlet.fluid
     h01 = inlet.h + V1 ** 2 / 2
     iso = fluid.state_Ps(P2, inlet.s, T_guess=inlet.T)
@@ -215,13 +215,12 @@ def diffuser(inlet: State, velocity_in, *, velocity_out=0.0, isentropic_efficien
 
     References
     ----------
-    Steady-flow energy equation and the efficiency definitions of the module notes (common
-    practice).
+    Steady-flow energy equation; the diffuser efficiency as defined in the module notes
+    (common practice).
     """
-    inlet = _check_state("diffuser inlet", inlet)
+    inlet, m = _inlet_and_flow("diffuser", inlet, mass_flow)
     V1 = _positive(velocity_in, "velocity", "diffuser inlet velocity", "m/s")
     V2 = to_si(velocity_out, "velocity", "diffuser outlet velocity")
-    m = _positive(mass_flow, "mass_flow", "diffuser mass flow", "kg/s")
     eta = _efficiency("diffuser isentropic efficiency", isentropic_efficiency)
     if not 0.0 <= V2 < V1:
         raise InputError(

@@ -36,8 +36,8 @@ from fluids.friction import friction_factor as _fluids_friction_factor
 
 from ..errors import InputError, SpecificationError
 from ..fluids import State
-from ..units import optional_si, to_si
-from .throttle import _check_state, _positive
+from ..units import to_si
+from .throttle import _check_state, _not_negative, _positive
 from .turbomachine import STANDARD_GRAVITY
 
 #: Absolute roughness of new commercial steel pipe [m] (0.045 mm, from memory).
@@ -222,25 +222,16 @@ def pipe_segment(inlet: State, mass_flow, diameter, *, length=0.0, outlet_diamet
     _check_liquid("pipe inlet", inlet)
     m = _positive(mass_flow, "mass_flow", "pipe mass flow", "kg/s")
     D1 = _positive(diameter, "length", "pipe diameter", "m")
-    D2 = optional_si(outlet_diameter, "length", "pipe outlet diameter")
-    if D2 is None:
-        D2 = D1
-    elif not D2 > 0:
-        raise InputError(f"pipe outlet diameter {D2:g} m must be positive")
-    L = to_si(length, "length", "pipe length")
-    if L < 0:
-        raise InputError(f"pipe length {L:g} m must not be negative")
+    D2 = D1 if outlet_diameter is None else _positive(outlet_diameter, "length",
+                                                         "pipe outlet diameter", "m")
+    L = _not_negative(length, "length", "pipe length", "m")
     dz = to_si(elevation_change, "length", "elevation change")
     eps = to_si(roughness, "length", "pipe roughness")
     if not 0.0 <= eps < D1 * 0.05:
         raise InputError(f"pipe roughness {eps:g} m must lie in [0, {0.05 * D1:g}) m "
                          "(relative roughness up to 0.05)")
-    K = to_si(minor_loss_coefficient, "dimensionless", "minor loss coefficient")
-    if K < 0:
-        raise InputError(f"minor loss coefficient {K:g} must not be negative")
-    W = to_si(pump_power, "power", "pump power")
-    if W < 0:
-        raise InputError(f"pump power {W:g} W must not be negative")
+    K = _not_negative(minor_loss_coefficient, "dimensionless", "minor loss coefficient")
+    W = _not_negative(pump_power, "power", "pump power", "W")
     Q = to_si(heat_loss, "power", "pipe heat loss")
     rho = inlet.rho
     V1 = m / (rho * math.pi * D1 ** 2 / 4)

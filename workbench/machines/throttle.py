@@ -39,6 +39,22 @@ def _positive(value, kind: str, name: str, unit: str) -> float:
     return number
 
 
+def _not_negative(value, kind: str, name: str, unit: str = "") -> float:
+    number = to_si(value, kind, name)
+    if number < 0:
+        shown = f"{number:g} {unit}" if unit else f"{number:g}"
+        raise InputError(f"{name} {shown} must not be negative")
+    return number
+
+
+def _check_below_inlet(device: str, P_out: float, inlet: State, reason: str) -> None:
+    """Refuse an outlet pressure [Pa] not below the inlet's; ``reason`` ends the message."""
+    if not P_out < inlet.P:
+        raise InputError(
+            f"{device} outlet pressure {P_out / 1e5:.6g} bar is not below the inlet pressure "
+            f"{inlet.P / 1e5:.6g} bar: {reason}")
+
+
 def _quality(state: State) -> float:
     return math.nan if state.x is None else state.x
 
@@ -126,10 +142,7 @@ def throttle(inlet: State, P_out, *, mass_flow=1.0) -> ThrottleResult:
     inlet = _check_state("throttle inlet", inlet)
     P2 = _positive(P_out, "pressure", "throttle outlet pressure", "Pa")
     m = _positive(mass_flow, "mass_flow", "throttle mass flow", "kg/s")
-    if not P2 < inlet.P:
-        raise InputError(
-            f"throttle outlet pressure {P2 / 1e5:.6g} bar is not below the inlet pressure "
-            f"{inlet.P / 1e5:.6g} bar: a throttle valve lowers pressure")
+    _check_below_inlet("throttle", P2, inlet, "a throttle valve lowers pressure")
     outlet = inlet.fluid.state_Ph(P2, inlet.h, T_guess=inlet.T)
     dT = outlet.T - inlet.T
     liquid_in = inlet.phase == "liquid" or (inlet.x is not None and inlet.x <= 1e-9)
