@@ -1,16 +1,39 @@
-"""Tests of the field-test data panel (workbench.ui.test_data_panel)."""
+"""Tests of the field-test data panel (workbench.ui.test_data_panel).
+
+The panel must show what the library computes: results from ``evaluate``, error bars from
+``propagate_uncertainty`` and steady flags from ``steady_state_flags`` on the same readings,
+each recomputed here independently of the panel.
+"""
 
 import base64
 import datetime
 import io
+import re
 
 import numpy as np
 import pandas as pd
+import plotly.graph_objects as go
 import pytest
 
 import workbench as wb
-from workbench.fieldtest import evaluate, read_readings
-from workbench.ui.test_data_panel import DEMO_FILE, DEMO_MAP, FieldDataPanel, parse_fluid
+from workbench.fieldtest import (
+    evaluate,
+    propagate_uncertainty,
+    read_readings,
+    steady_state_flags,
+)
+from workbench.ui.test_data_panel import (
+    DEMO_FILE,
+    DEMO_GAS,
+    DEMO_MAP,
+    FIELD_TRACES,
+    FieldDataPanel,
+    parse_fluid,
+)
+
+#: Unit factors to SI of the demo file's units (NIST SP 811): 1 bar = 1e5 Pa, 1 kW = 1e3 W,
+#: 1 m3/h = 1/3600 m3/s; a difference of 1 degC is 1 K (definition of the Celsius scale).
+TO_SI = {"bar": 1e5, "°C": 1.0, "Sm³/h": 1 / 3600, "kW": 1e3, "rpm": 1.0}
 
 
 @pytest.fixture(scope="module")
@@ -18,14 +41,43 @@ def demo():
     return FieldDataPanel.demo()
 
 
-def test_demo_panel_matches_the_library(demo):
-    # Source: the library path (read_readings + evaluate) on the same file and map
+@pytest.fixture(scope="module")
+def library():
+    """The library path on the demo file, without the panel: (readings, results)."""
     cmap = {k: v[0] for k, v in DEMO_MAP.items()}
     units = {k: v[1] for k, v in DEMO_MAP.items()}
     readings = read_readings(DEMO_FILE, cmap, units, ambient_pressure=101300.0)
-    direct = evaluate(readings, "compressor", parse_fluid(
-        "Methane=0.89; Ethane=0.06; Propane=0.02; Nitrogen=0.015; CarbonDioxide=0.015"),
-        mechanical_efficiency=0.985)
+    results = evaluate(readings, "compressor", parse_fluid(DEMO_GAS),
+                       mechanical_efficiency=0.985,
+                       results=("isentropic_efficiency", "shaft_power", "inlet_volume_flow"))
+    return readings, results
+
+
+def traces(panel):
+    """The figure's traces by (chart, trace name)."""
+    n = len(FIELD_TRACES)
+    data = panel.figure.data
+    return {(chart, name): data[offset + i]
+            for offset, chart in ((0, "efficiency"), (n, "power"))
+            for i, name in enumerate(FIELD_TRACES)}
+
+
+def hand_tolerances(panel):
+    """SI tolerances from the entries as shown, converted with the factors of TO_SI."""
+    return {name: panel.tolerance[name].value * TO_SI[panel.tolerance_unit[name].value]
+            for name in DEMO_MAP}
+
+
+def table_steady_cells(table_html):
+    """Row index -> 'yes'/'no' of the steady column of the table."""
+    return {int(i): flag for i, flag in re.findall(
+        r"<tr class='wb-row-\w+'[^>]*><td class='wb-num'>(\d+)</td>"
+        r"<td class='wb-steady-(yes|no)'", table_html)}
+
+
+def test_demo_panel_matches_the_library(demo, library):
+    # Source: the library path (read_readings + evaluate) on the same file and map
+    _readings, direct = library
     np.testing.assert_allclose(demo.results["isentropic_efficiency"],
                                direct["isentropic_efficiency"], rtol=1e-12)
     numbers = demo.summary_numbers()
@@ -50,14 +102,141 @@ def test_table_colours_flagged_rows_and_export_has_every_row(demo):
                                rtol=1e-9)
 
 
-def test_chart_has_rows_error_bars_and_design_point(demo):
-    eff = {s["name"]: s for s in demo.plot_data["efficiency"]}
-    assert len(eff["rows"]["x"]) == 294
-    bars = eff["U95 at sampled rows"]["error"]
-    assert len(bars) > 0 and np.all(np.asarray(bars) > 0)
-    assert eff["design point"]["y"] == [pytest.approx(77.0)]
-    assert demo.figure.value.count("<svg") == 2
-    assert "<script" not in demo.figure.value
+def test_one_figure_widget_updated_in_place():
+    panel = FieldDataPanel.demo()
+    figure, before = panel.figure, list(panel.figure.data)
+    assert isinstance(figure, go.FigureWidget)
+    assert len(before) == 2 * len(FIELD_TRACES)  # both charts are subplots of one figure
+    assert before[0].xaxis == "x" and before[len(FIELD_TRACES)].xaxis == "x2"
+    steady_before = len(before[0].x)
+    panel.steady_window.value = 10  # longer window: fewer steady rows, same traces
+    panel.evaluate()
+    assert panel.figure is figure
+    assert all(a is b for a, b in zip(panel.figure.data, before))
+    assert len(panel.figure.data) == len(before)
+    assert len(panel.figure.data[0].x) < steady_before
+
+
+def test_chart_data_are_the_library_results_of_the_ok_rows(demo, library):
+    # Source: the library's evaluate() on the same readings; bad rows are left out
+    _readings, direct = library
+    ok = direct["status"] == "ok"
+    t = traces(demo)
+    flow = np.concatenate([t["efficiency", "steady rows"].x, t["efficiency", "unsteady rows"].x])
+    eta = np.concatenate([t["efficiency", "steady rows"].y, t["efficiency", "unsteady rows"].y])
+    power = np.concatenate([t["power", "steady rows"].y, t["power", "unsteady rows"].y])
+    order = np.argsort(flow, kind="stable")
+    expected = direct[ok].sort_values("inlet_volume_flow", kind="stable")
+    assert len(flow) == ok.sum() == 294
+    np.testing.assert_allclose(flow[order], 3600 * expected["inlet_volume_flow"], rtol=1e-12)
+    np.testing.assert_allclose(np.sort(eta), np.sort(100 * direct.loc[ok, "isentropic_efficiency"]),
+                               rtol=1e-12)
+    np.testing.assert_allclose(np.sort(power), np.sort(direct.loc[ok, "shaft_power"] / 1e3),
+                               rtol=1e-12)
+    assert np.array_equal(t["efficiency", "steady rows"].x, t["power", "steady rows"].x)
+
+
+def test_error_bars_are_propagate_uncertainty_at_the_sampled_rows(demo, library):
+    # Source: the library's propagate_uncertainty with the panel's stated instrument
+    # uncertainties (b: 0.25 % of each pressure, 0.2 K, 1 % of flow), rating from the
+    # measured outlet temperature (the measured power is then not an input)
+    readings, direct = library
+    t = traces(demo)
+    rows = list(demo.uncertainty["row"])
+    assert len(rows) == 12 and all(direct.loc[rows, "status"] == "ok")
+    np.testing.assert_allclose(t["efficiency", "U95 at sampled rows"].x,
+                               3600 * direct.loc[rows, "inlet_volume_flow"], rtol=1e-12)
+    for k in (0, len(rows) - 1):
+        row = readings.loc[rows[k]]
+        nominal = {name: float(row[name]) for name in (
+            "inlet_pressure", "outlet_pressure", "inlet_temperature", "outlet_temperature",
+            "standard_volume_flow")}
+        u = {"inlet_pressure": (0.0025 * nominal["inlet_pressure"], 0.0),
+             "outlet_pressure": (0.0025 * nominal["outlet_pressure"], 0.0),
+             "inlet_temperature": (0.2, 0.0), "outlet_temperature": (0.2, 0.0),
+             "standard_volume_flow": (0.01 * nominal["standard_volume_flow"], 0.0)}
+        report = propagate_uncertainty(nominal, u, ("isentropic_efficiency", "shaft_power"),
+                                       machine="compressor", fluid=parse_fluid(DEMO_GAS),
+                                       mechanical_efficiency=0.985)
+        assert t["efficiency", "U95 at sampled rows"].error_y.array[k] == pytest.approx(
+            100 * report.expanded["isentropic_efficiency"], rel=1e-9)
+        assert t["power", "U95 at sampled rows"].error_y.array[k] == pytest.approx(
+            report.expanded["shaft_power"] / 1e3, rel=1e-9)
+        assert report.expanded["isentropic_efficiency"] > 0
+
+
+def test_design_point_marker_is_at_the_design_values(demo):
+    # Source: the demo's design point (0.77, 1.70 MW shaft power at 0.65 m3/s inlet flow);
+    # 0.65 m3/s = 2340 m3/h
+    t = traces(demo)
+    assert list(t["efficiency", "design point"].x) == [pytest.approx(2340.0)]
+    assert list(t["efficiency", "design point"].y) == [pytest.approx(77.0)]
+    assert list(t["power", "design point"].x) == [pytest.approx(2340.0)]
+    assert list(t["power", "design point"].y) == [pytest.approx(1700.0)]
+    assert t["efficiency", "design point"].marker.symbol != t["efficiency", "steady rows"].marker.symbol
+
+
+def test_steady_flags_in_table_chart_and_export_are_the_library_flags(demo):
+    # Source: steady_state_flags() on the same readings with the tolerances shown on the page,
+    # converted by hand (NIST SP 811 factors, see TO_SI)
+    tolerances = hand_tolerances(demo)
+    expected = steady_state_flags(demo.readings, list(tolerances), demo.steady_window.value,
+                                  tolerances)["steady"]
+    assert 0 < expected.sum() < 300
+    data = base64.b64decode(demo.export.value.split("base64,")[1].split("'")[0])
+    exported = pd.read_csv(io.BytesIO(data))
+    assert list(exported["steady"]) == list(expected)
+    cells = table_steady_cells(demo.table.value)
+    assert len(cells) == 40
+    assert all((flag == "yes") == bool(expected[i]) for i, flag in cells.items())
+    assert f"Steady: {int(expected.sum())} of 300 rows" in demo.summary.value
+    ok = demo.results["status"] == "ok"
+    t = traces(demo)
+    assert len(t["efficiency", "steady rows"].x) == int((ok & expected).sum())
+    assert len(t["efficiency", "unsteady rows"].x) == int((ok & ~expected).sum())
+    assert t["efficiency", "unsteady rows"].marker.symbol == "circle-open"
+    # the invented demo ramps the speed by 45 rpm a row over rows 120-140: over a 5-row
+    # window the speed strays 2 x 45 = 90 rpm from its mean (by hand), beyond the 51 rpm
+    # tolerance (0.5 % of the median speed), so the ramp is unsteady
+    assert not expected.loc[125:140].any()
+    assert demo.tolerance["speed"].value == 51.0
+
+
+def test_default_tolerances_follow_the_readings():
+    # Source: common practice (from memory) for permissible fluctuations, as documented in the
+    # panel: 1 % of the median absolute pressure, 1 K for temperatures, 2 % of the flow
+    raw = pd.read_csv(DEMO_FILE)
+    panel = FieldDataPanel(DEMO_FILE.name, DEMO_FILE.read_bytes(), DEMO_MAP,
+                           ambient_pressure=101300.0)
+    p1 = pd.to_numeric(raw["PT-201 suction bar(g)"], errors="coerce").median() + 1.013
+    assert panel.tolerance["inlet_pressure"].value == pytest.approx(0.01 * p1, rel=0.03)
+    assert panel.tolerance_unit["inlet_pressure"].value == "bar"
+    assert panel.tolerance["inlet_temperature"].value == 1.0
+    flow = pd.to_numeric(raw["FT-200 flow Sm3/h"], errors="coerce").median()
+    assert panel.tolerance["standard_volume_flow"].value == pytest.approx(0.02 * flow, rel=0.03)
+    # a typed tolerance keeps its size when the unit changes: 1 psi = 6894.757 Pa (NIST SP 811)
+    panel.tolerance["inlet_pressure"].value = 0.2
+    panel.map_unit["inlet_pressure"].value = "psig"
+    assert panel.tolerance_unit["inlet_pressure"].value == "psi"
+    assert panel.tolerance["inlet_pressure"].value == pytest.approx(0.2e5 / 6894.757, rel=1e-5)
+    # 1 K is 1.8 degF (definition of the Fahrenheit scale)
+    panel.map_unit["outlet_temperature"].value = "degF"
+    assert panel.tolerance["outlet_temperature"].value == pytest.approx(1.8)
+
+
+def test_bad_tolerance_or_window_gives_a_message_and_keeps_the_table():
+    panel = FieldDataPanel.demo()
+    table = panel.table.value
+    panel.tolerance["inlet_pressure"].value = -0.5  # no exception may escape
+    assert "tolerance -0.5 bar of the inlet pressure" in panel.message.value
+    assert panel.table.value == table
+    assert "wb-stale" in panel.summary.value
+    panel.tolerance["inlet_pressure"].value = 0.19
+    assert "wb-fresh" in panel.summary.value
+    panel.steady_window.value = 1
+    assert "at least 2 rows" in panel.message.value
+    panel.evaluate()  # the evaluation refuses the same window with the same message
+    assert "at least 2 rows" in panel.message.value
 
 
 def test_bad_map_gives_a_message_and_keeps_the_last_table():

@@ -3,13 +3,29 @@
 The panel holds no thermodynamics: it reads the file with
 :func:`workbench.fieldtest.readers.readings_from_frame`, evaluates with
 :func:`workbench.fieldtest.evaluate`, propagates instrument uncertainties with
-:func:`workbench.fieldtest.propagate_uncertainty` at a sample of rows, and compares with the
-design point by :func:`workbench.fieldtest.compare_with_design`.  A bad file, a wrong column map
-or a bad row never raises into the page: the message area says what is wrong and the last good
-table stays visible, marked stale.
+:func:`workbench.fieldtest.propagate_uncertainty` at a sample of rows, flags unsteady rows with
+:func:`workbench.fieldtest.steady_state_flags` and compares with the design point by
+:func:`workbench.fieldtest.compare_with_design`.  A bad file, a wrong column map, a bad
+tolerance or a bad row never raises into the page: the message area says what is wrong and the
+last good table stays visible, marked stale.
+
+Charts: one plotly FigureWidget with two subplots, isentropic efficiency and shaft power
+against inlet volume flow.  Rows that are not ok are left out; steady rows are filled dots,
+unsteady rows hollow grey rings; the sampled rows carry their U95 error bars; the design point
+is a diamond.  The figure is built once and its traces are updated in place.
+
+Steady state: a row is steady when, over the window of rows ending at it, no mapped reading
+strays from its window mean by more than its tolerance (common practice of performance
+testing).  Tolerances are entered per reading, as a difference in the unit the column is
+mapped in (bar for a bar(g) column, degC or K for temperatures, the flow unit for flow).  The
+defaults, set when a column is chosen, are typical permissible fluctuations (common practice,
+from memory): +-1 % of the file's median reading for pressures (absolute), +-2 % for flows and
+power, +-0.5 % for speed, +-1 K for temperatures, over a window of 5 rows (5 minutes of
+one-minute scans).  Set the limits of the test code and contract in force.
 
 CSS hooks: ``wb-input-<name>`` on every entry, ``wb-result-<name>`` on every result,
-``wb-message`` on the message area, ``wb-caution`` on the caution banner.
+``wb-message`` on the message area, ``wb-caution`` on the caution banner; table rows are
+``wb-row-ok`` / ``wb-row-flagged`` and steady cells ``wb-steady-yes`` / ``wb-steady-no``.
 
 References
 ----------
@@ -30,16 +46,18 @@ import numpy as np
 import pandas as pd
 
 from .. import SAFETY_CAUTION
-from ..errors import WorkbenchError
+from ..errors import InputError, WorkbenchError
 from ..fieldtest import (
     DesignPoint,
     compare_with_design,
     evaluate,
     propagate_uncertainty,
     readings_from_frame,
+    steady_state_flags,
 )
-from ..fieldtest.readers import READING_KINDS
+from ..fieldtest.readers import READING_KINDS, convert_values, parse_unit
 from ..fluids import Fluid
+from .charts import figure_view, new_figure, refresh_view, sync_figure
 from .common import NumberEntry, caution_banner, message_area
 
 #: Demo file of the invented booster compressor (see its generator in tests/data).
@@ -71,10 +89,32 @@ _LABELS = {
     "standard_volume_flow": "Standard volume flow (15 °C, 101.325 kPa)",
     "power": "Shaft power", "speed": "Speed",
 }
+#: Short reading names for the steady column of the table.
+_SHORT = {
+    "inlet_pressure": "inlet p", "outlet_pressure": "outlet p", "inlet_temperature": "inlet T",
+    "outlet_temperature": "outlet T", "mass_flow": "flow", "volume_flow": "flow",
+    "standard_volume_flow": "flow", "power": "power", "speed": "speed",
+}
 #: Rows of the table shown on the page (the CSV export has every row).
 TABLE_ROWS = 40
 #: Rows (spread over the file) at which the uncertainty is propagated for the error bars.
 UNCERTAINTY_ROWS = 12
+#: Default steady-state window [rows].
+STEADY_WINDOW = 5
+#: Default steady-state tolerance per kind of reading: a fraction of the file's median reading
+#: (absolute pressure, flow, power, speed) or a difference [K] for temperatures (common
+#: practice, from memory; see the module docstring).
+STEADY_DEFAULTS = {"pressure": 0.01, "temperature": 1.0, "mass_flow": 0.02,
+                   "volume_flow": 0.02, "power": 0.02, "speed": 0.005}
+
+#: Colours and traces of the field-test figure (our own plain palette).
+FIELD_TRACES = ("steady rows", "unsteady rows", "U95 at sampled rows", "design point")
+_STEADY_COLOUR = "#2e6b8a"
+_UNSTEADY_COLOUR = "#8f8f8f"
+_BAR_COLOUR = "#303030"
+_DESIGN_COLOUR = "#c2461f"
+_UNSTEADY_CELL = "#dde5ef"
+_FLAGGED_ROW = "#fbe3c6"
 
 
 def parse_fluid(text: str, backend: str = "HEOS") -> Fluid:
@@ -113,6 +153,105 @@ def _read_table(name: str, content: bytes) -> pd.DataFrame:
     return raw
 
 
+def tolerance_unit(unit: str, kind: str) -> str:
+    """Unit of a difference of readings taken in ``unit`` (``bar(g)`` -> ``bar``)."""
+    if kind == "pressure":
+        text = parse_unit(unit, kind)[0]
+    else:
+        text = unit
+    return (text.replace("degC", "°C").replace("degF", "°F").replace("m3", "m³")
+            .replace("ft3", "ft³"))
+
+
+def difference_to_si(value: float, unit: str, kind: str, name: str) -> float:
+    """A difference of two readings (a tolerance) given in ``unit``, in SI units.
+
+    Parameters
+    ----------
+    value : float
+        The difference in the reading's unit (gauge and absolute pressures alike).
+    unit, kind, name : str
+        Unit text, kind of quantity and reading name, as for
+        :func:`workbench.fieldtest.readers.convert_values`.
+
+    Returns
+    -------
+    float
+        The difference in SI units [Pa, K, kg/s, m^3/s, W; rev/min for speed].
+    """
+    zero, shifted = convert_values([0.0, float(value)], unit, kind, name)
+    return float(shifted - zero)
+
+
+def _nice(value: float) -> float:
+    """A default tolerance rounded to two significant digits (finite, never NaN)."""
+    if not math.isfinite(value) or value <= 0:
+        return 0.0
+    return float(f"{value:.2g}")
+
+
+def make_field_figure(width: int = 1100, height: int = 420):
+    """One FigureWidget with the efficiency and shaft-power charts as two subplots.
+
+    Each subplot holds the traces of :data:`FIELD_TRACES`, in that order: trace ``i`` of the
+    efficiency chart is ``data[i]``, of the power chart ``data[len(FIELD_TRACES) + i]``.
+    """
+    fig = new_figure()
+    fig.set_subplots(rows=1, cols=2, horizontal_spacing=0.09,
+                     subplot_titles=("Isentropic efficiency", "Shaft power"))
+    styles = (
+        dict(mode="markers", marker=dict(color=_STEADY_COLOUR, size=6, opacity=0.85)),
+        dict(mode="markers", marker=dict(color=_UNSTEADY_COLOUR, size=7, symbol="circle-open",
+                                         line=dict(width=1.2))),
+        dict(mode="markers", marker=dict(color=_BAR_COLOUR, size=4, symbol="square"),
+             error_y=dict(type="data", array=[], visible=True, thickness=1.2, width=4,
+                          color=_BAR_COLOUR)),
+        dict(mode="markers", marker=dict(color=_DESIGN_COLOUR, size=13, symbol="diamond",
+                                         line=dict(color="#ffffff", width=1.5))),
+    )
+    for col in (1, 2):
+        for name, style in zip(FIELD_TRACES, styles):
+            fig.add_scatter(x=[], y=[], name=name, legendgroup=name, showlegend=col == 1,
+                            row=1, col=col, **style)
+    fig.update_layout(
+        width=width, height=height, template="simple_white",
+        margin=dict(l=64, r=24, t=36, b=96), font=dict(size=12),
+        legend=dict(orientation="h", x=0.0, y=-0.2, font=dict(size=11)),
+        hovermode="closest")
+    fig.update_annotations(font=dict(size=13))
+    flow = "inlet volume flow [m³/h]"
+    fig.update_xaxes(title_text=flow, showgrid=True, gridcolor="#ececec")
+    fig.update_yaxes(showgrid=True, gridcolor="#ececec")
+    fig.update_yaxes(title_text="isentropic efficiency [%]", row=1, col=1)
+    fig.update_yaxes(title_text="shaft power [kW]", row=1, col=2)
+    sync_figure(fig)
+    return fig
+
+
+def update_field_figure(fig, series: dict):
+    """Put the chart series into the figure's existing traces (in place, one batch).
+
+    Parameters
+    ----------
+    fig : plotly.graph_objects.FigureWidget
+        From :func:`make_field_figure`.
+    series : dict
+        ``{"efficiency": {trace name: (x, y, error or None)}, "power": {...}}`` in display
+        units (m³/h, %, kW); a trace missing from a chart is emptied.
+    """
+    n = len(FIELD_TRACES)
+    with fig.batch_update():
+        for offset, chart in ((0, "efficiency"), (n, "power")):
+            for i, name in enumerate(FIELD_TRACES):
+                x, y, error = series[chart].get(name, ([], [], None))
+                trace = fig.data[offset + i]
+                trace.x = np.asarray(x, dtype=float)
+                trace.y = np.asarray(y, dtype=float)
+                if error is not None:
+                    trace.error_y.array = np.asarray(error, dtype=float)
+    sync_figure(fig)
+
+
 class FieldDataPanel(widgets.VBox):
     """Dashboard panel for a file of field-test readings.
 
@@ -139,7 +278,13 @@ class FieldDataPanel(widgets.VBox):
         self.results: pd.DataFrame | None = None
         self.deviation: pd.DataFrame | None = None
         self.uncertainty: pd.DataFrame | None = None
+        #: Steady-state flags of the last good evaluation (``steady_state_flags`` output).
+        self.steady: pd.DataFrame | None = None
+        #: Window [rows] and SI tolerances the flags were computed with.
+        self.steady_used: tuple[int, dict] | None = None
         self.file_name = file_name or ""
+        self._quiet = False
+        self._tolerance_edited: set[str] = set()
 
         self.caution = caution_banner(SAFETY_CAUTION)
         self.message = message_area()
@@ -148,27 +293,56 @@ class FieldDataPanel(widgets.VBox):
         self.upload.add_class("wb-input-file")
         self.upload.observe(self._uploaded, names="value")
         self.machine = self._dropdown("machine", "Machine", ["compressor", "turbine", "pump",
-                                                             "fan"], machine)
+                                                             "fan"], machine, "340px")
         self.fluid = widgets.Text(value=fluid, description="Fluid",
-                                  layout=widgets.Layout(width="640px"),
+                                  layout=widgets.Layout(width="760px"),
                                   style={"description_width": "170px"})
         self.fluid.add_class("wb-input-fluid")
-        self.backend = self._dropdown("backend", "Property model", ["HEOS", "IF97"], backend)
+        self.backend = self._dropdown("backend", "Property model", ["HEOS", "IF97"], backend,
+                                      "340px")
         self.ambient = NumberEntry("ambient-pressure", "Ambient pressure", "absolute_pressure",
                                    ambient_pressure, system="bar, degC")
         self.mech = NumberEntry("mechanical-efficiency", "Mechanical efficiency", "percent",
                                 mechanical_efficiency, system="bar, degC")
         self.map_column: dict[str, widgets.Dropdown] = {}
         self.map_unit: dict[str, widgets.Dropdown] = {}
-        rows = []
+        #: Steady-state tolerance entries, in the unit of the mapped column.
+        self.tolerance: dict[str, widgets.FloatText] = {}
+        self.tolerance_unit: dict[str, widgets.Label] = {}
+        self._tolerance_box: dict[str, widgets.HBox] = {}
+        rows = [widgets.HBox([
+            widgets.HTML("<span class='wb-head'>reading and file column</span>",
+                         layout=widgets.Layout(width="520px")),
+            widgets.HTML("<span class='wb-head'>unit</span>", layout=widgets.Layout(
+                width="110px")),
+            widgets.HTML("<span class='wb-head'>steady tolerance ±</span>")])]
         for name, (kind, _) in READING_KINDS.items():
-            col = self._dropdown(f"map-{name.replace('_', '-')}", _LABELS[name], [NONE], NONE)
+            hook = name.replace("_", "-")
+            col = self._dropdown(f"map-{hook}", _LABELS[name], [NONE], NONE)
             choices = UNIT_CHOICES["volume_flow" if kind == "volume_flow" else kind]
             unit = widgets.Dropdown(options=choices, value=choices[0],
                                     layout=widgets.Layout(width="110px"))
-            unit.add_class(f"wb-input-unit-{name.replace('_', '-')}")
+            unit.add_class(f"wb-input-unit-{hook}")
+            tol = widgets.FloatText(value=0.0, continuous_update=False,
+                                    layout=widgets.Layout(width="90px"))
+            tol.add_class(f"wb-input-tolerance-{hook}")
+            tol_unit = widgets.Label(tolerance_unit(choices[0], kind),
+                                     layout=widgets.Layout(width="70px"))
+            box = widgets.HBox([tol, tol_unit], layout=widgets.Layout(visibility="hidden"))
             self.map_column[name], self.map_unit[name] = col, unit
-            rows.append(widgets.HBox([col, unit]))
+            self.tolerance[name], self.tolerance_unit[name] = tol, tol_unit
+            self._tolerance_box[name] = box
+            col.observe(lambda change, n=name: self._mapping_changed(n, change), names="value")
+            unit.observe(lambda change, n=name: self._mapping_changed(n, change),
+                         names="value")
+            tol.observe(lambda change, n=name: self._tolerance_typed(n), names="value")
+            rows.append(widgets.HBox([col, unit, box], layout=widgets.Layout(
+                align_items="center")))
+        self.steady_window = widgets.IntText(
+            value=STEADY_WINDOW, description="Steady window (rows)", continuous_update=False,
+            style={"description_width": "170px"}, layout=widgets.Layout(width="260px"))
+        self.steady_window.add_class("wb-input-steady-window")
+        self.steady_window.observe(lambda _change: self._steady_changed(), names="value")
         self.u_pressure = NumberEntry("u-pressure", "Pressure b", "percent", 0.0025,
                                       system="bar, degC")
         self.u_temperature = NumberEntry("u-temperature", "Temperature b (K)",
@@ -180,39 +354,55 @@ class FieldDataPanel(widgets.VBox):
         design = design or DesignPoint()
         self.d_eta = NumberEntry("design-efficiency", "Design efficiency", "percent",
                                  _nan(design.isentropic_efficiency), system="bar, degC")
-        self.d_power = NumberEntry("design-power", "Design power", "power", _nan(design.power),
-                                   system="bar, degC")
+        self.d_power = NumberEntry("design-power", "Design shaft power", "power",
+                                   _nan(design.power), system="bar, degC")
         self.d_flow = NumberEntry("design-flow", "Design inlet flow", "volume_flow",
                                   _nan(design.volume_flow), system="bar, degC")
         self.d_speed = NumberEntry("design-speed", "Rated speed (rpm)", "dimensionless",
                                    _nan(design.speed), system="bar, degC")
-        self.run = widgets.Button(description="Evaluate all rows", button_style="primary")
+        self.run = widgets.Button(description="Evaluate all rows", button_style="primary",
+                                  layout=widgets.Layout(width="200px", margin="8px 0 4px 0"))
         self.run.add_class("wb-input-evaluate")
         self.run.on_click(lambda _: self.evaluate())
 
-        self.summary = widgets.HTML("No readings yet.")
+        self.summary = widgets.HTML("No readings yet.", layout=widgets.Layout(width="100%"))
         self.summary.add_class("wb-result-summary")
-        self.table = widgets.HTML("")
+        self.table = widgets.HTML("", layout=widgets.Layout(max_height="460px",
+                                                            overflow="auto", width="100%"))
         self.table.add_class("wb-result-table")
         self.export = widgets.HTML("")
         self.export.add_class("wb-result-export")
-        #: Series of the two charts: chart -> list of dicts (name, x, y, error, symbol).
-        self.plot_data: dict = {"efficiency": [], "power": []}
-        self.figure = widgets.HTML("")
-        self.figure.add_class("wb-result-figure")
-        self.figure_box = self.figure
+        #: The charts: one FigureWidget, two subplots, traces updated in place.
+        self.figure = make_field_figure()
+        self.figure_view = figure_view(self.figure)
+        self.figure_view.add_class("wb-result-figure")
 
-        setup = widgets.VBox([
-            widgets.HBox([self.upload]), self.machine, self.fluid, self.backend,
-            self.ambient, self.mech,
-            widgets.HTML("<b>Columns and units</b>"), *rows,
-            widgets.HTML("<b>Instrument systematic uncertainties (standard, 1 sigma)</b>"),
+        left = widgets.VBox([
+            _heading("Machine and fluid"), self.machine, self.backend, self.ambient,
+            self.mech,
+            _heading("Instrument systematic uncertainty (1 sigma)"),
             self.u_pressure, self.u_temperature, self.u_flow, self.u_power,
-            widgets.HTML("<b>Design point</b> (0 where not given)"),
-            self.d_eta, self.d_power, self.d_flow, self.d_speed, self.run])
+            _heading("Design point (0 where not given)"),
+            self.d_eta, self.d_power, self.d_flow, self.d_speed],
+            layout=widgets.Layout(width="360px", margin="0 24px 0 0"))
+        right = widgets.VBox([
+            _heading("Columns, units and steady-state tolerances"), *rows,
+            self.steady_window,
+            widgets.HTML("<small style='color:#555'>A row is steady when no reading strays "
+                         "from its mean over the window ending at that row by more than its "
+                         "tolerance. Defaults: ±1 % of the reading for pressures, ±2 % for "
+                         "flow and power, ±0.5 % for speed, ±1 K for temperatures; use the "
+                         "limits of the test code and contract in force.</small>",
+                         layout=widgets.Layout(width="780px"))])
+        setup = widgets.VBox([
+            widgets.HBox([self.upload], layout=widgets.Layout(margin="0 0 4px 0")),
+            self.fluid, widgets.HBox([left, right], layout=widgets.Layout(
+                flex_flow="row wrap")), self.run])
         super().__init__([
-            widgets.HTML("<h3>Field-test readings</h3>"), self.caution, setup, self.message,
-            self.summary, self.figure_box, self.table, self.export])
+            widgets.HTML(f"<style>{_CSS}</style><h3 style='margin:4px 0'>Field-test readings"
+                         "</h3>"), self.caution, setup, self.message,
+            self.summary, self.figure_view, self.table, self.export],
+            layout=widgets.Layout(width="100%", max_width="1400px"))
         self.add_class("wb-panel-test-data")
         if content is not None:
             self.load(file_name or "readings.csv", content)
@@ -221,10 +411,10 @@ class FieldDataPanel(widgets.VBox):
 
     # ------------------------------------------------------------------ construction helpers
     @staticmethod
-    def _dropdown(name, label, options, value):
+    def _dropdown(name, label, options, value, width="520px"):
         w = widgets.Dropdown(options=list(options), value=value, description=label,
                              style={"description_width": "170px"},
-                             layout=widgets.Layout(width="520px"))
+                             layout=widgets.Layout(width=width))
         w.add_class(f"wb-input-{name}")
         return w
 
@@ -254,6 +444,7 @@ class FieldDataPanel(widgets.VBox):
             self._fail(str(exc))
             return
         self.raw, self.file_name = raw, file_name
+        self._tolerance_edited.clear()
         options = [NONE, *raw.columns]
         for _name, dropdown in self.map_column.items():
             dropdown.options = options
@@ -264,10 +455,10 @@ class FieldDataPanel(widgets.VBox):
     def set_column_map(self, column_map: dict):
         """Preset the mapping: reading name -> (file column, unit text)."""
         for name, (column, unit) in column_map.items():
-            if column in self.map_column[name].options:
-                self.map_column[name].value = column
             if unit in self.map_unit[name].options:
                 self.map_unit[name].value = unit
+            if column in self.map_column[name].options:
+                self.map_column[name].value = column
 
     def column_map(self) -> tuple[dict, dict]:
         """The current mapping as (column_map, units) for the readers."""
@@ -278,9 +469,106 @@ class FieldDataPanel(widgets.VBox):
                 units[name] = self.map_unit[name].value
         return cmap, units
 
+    # ------------------------------------------------------------------ steady-state entries
+    def _mapping_changed(self, name: str, change):
+        """A column or unit choice changed: show the tolerance entry in the mapped unit."""
+        try:
+            kind = READING_KINDS[name][0]
+            mapped = self.map_column[name].value != NONE
+            unit = self.map_unit[name].value
+            self._tolerance_box[name].layout.visibility = "visible" if mapped else "hidden"
+            self.tolerance_unit[name].value = tolerance_unit(unit, kind)
+            if not mapped:
+                return
+            if name in self._tolerance_edited and change["owner"] is self.map_unit[name]:
+                # the typed tolerance keeps its size in the new unit
+                old = difference_to_si(1.0, change["old"], kind, name)
+                new = difference_to_si(1.0, unit, kind, name)
+                self._set_tolerance(name, self.tolerance[name].value * old / new)
+            elif name not in self._tolerance_edited:
+                self._set_tolerance(name, self.default_tolerance(name))
+        except Exception as exc:  # noqa: BLE001 - a callback never raises into the page
+            self._fail(f"steady-state tolerance of the {_LABELS[name].lower()}: {exc}")
+
+    def _set_tolerance(self, name: str, value: float):
+        self._quiet = True
+        try:
+            self.tolerance[name].value = float(f"{value:.6g}") if math.isfinite(value) else 0.0
+        finally:
+            self._quiet = False
+
+    def default_tolerance(self, name: str) -> float:
+        """Default steady-state tolerance of a mapped reading, in its mapped unit.
+
+        ±1 K for temperatures; otherwise the fraction :data:`STEADY_DEFAULTS` of the file's
+        median reading (absolute pressure for pressures), rounded to two significant digits.
+        """
+        kind = READING_KINDS[name][0]
+        unit = self.map_unit[name].value
+        per_unit = difference_to_si(1.0, unit, kind, name)
+        if kind == "temperature":
+            return _nice(STEADY_DEFAULTS["temperature"] / per_unit)
+        values = pd.to_numeric(self.raw[self.map_column[name].value], errors="coerce")
+        si = convert_values(values.to_numpy(dtype=float), unit, kind, name,
+                            ambient_pressure=self.ambient.si)
+        si = si[np.isfinite(si)]
+        if not si.size:
+            return 0.0
+        return _nice(STEADY_DEFAULTS[kind] * float(np.median(np.abs(si))) / per_unit)
+
+    def _tolerance_typed(self, name: str):
+        if self._quiet:
+            return
+        self._tolerance_edited.add(name)
+        self._steady_changed()
+
+    def steady_settings(self) -> tuple[int, dict]:
+        """The window [rows] and the tolerance of every mapped reading in SI units.
+
+        Raises
+        ------
+        InputError
+            If the window is shorter than 2 rows or a tolerance is negative.
+        """
+        window = self.steady_window.value
+        if not isinstance(window, int) or window < 2:
+            raise InputError(f"steady-state window of {window!r} rows: it must be at least 2 "
+                             "rows")
+        cmap, units = self.column_map()
+        tolerances = {}
+        for name in cmap:
+            value = self.tolerance[name].value
+            shown = tolerance_unit(units[name], READING_KINDS[name][0])
+            if not (math.isfinite(value) and value >= 0):
+                raise InputError(f"steady-state tolerance {value:g} {shown} of the "
+                                 f"{_LABELS[name].lower()} must be zero or positive")
+            tolerances[name] = difference_to_si(value, units[name], READING_KINDS[name][0],
+                                                name)
+        return window, tolerances
+
+    def _steady_flags(self, readings: pd.DataFrame):
+        window, tolerances = self.steady_settings()
+        flags = steady_state_flags(readings, list(tolerances), window, tolerances)
+        return flags, (window, tolerances)
+
+    def _steady_changed(self):
+        """A window or tolerance changed: flag the last readings again (no re-evaluation)."""
+        if self.readings is None:
+            return
+        try:
+            flags, used = self._steady_flags(self.readings)
+        except WorkbenchError as exc:
+            self._fail(str(exc))
+            return
+        except Exception as exc:  # noqa: BLE001 - a callback never raises into the page
+            self._fail(f"the steady-state check failed ({type(exc).__name__})")
+            return
+        self.steady, self.steady_used = flags, used
+        self._show()
+
     # ------------------------------------------------------------------ evaluation
     def evaluate(self):
-        """Convert, evaluate, propagate and compare; show the results or a message."""
+        """Convert, evaluate, propagate, flag and compare; show the results or a message."""
         if self.raw is None:
             self._fail("load a readings file first")
             return
@@ -289,13 +577,15 @@ class FieldDataPanel(widgets.VBox):
             fluid = parse_fluid(self.fluid.value, self.backend.value)
             readings = readings_from_frame(self.raw, cmap, units,
                                            ambient_pressure=self.ambient.si)
+            steady, used = self._steady_flags(readings)
             results = evaluate(readings, self.machine.value, fluid,
                                mechanical_efficiency=self.mech.si,
                                results=("power", "shaft_power", "isentropic_efficiency",
                                         "isentropic_head", "pressure_ratio",
                                         "outlet_temperature", "mass_flow",
                                         "inlet_volume_flow"))
-            deviation = compare_with_design(results, self._design())
+            deviation = compare_with_design(results, self._design(),
+                                            power_column="shaft_power")
             uncertainty = self._uncertainty(readings, results, fluid)
         except WorkbenchError as exc:
             self._fail(str(exc))
@@ -306,6 +596,7 @@ class FieldDataPanel(widgets.VBox):
             return
         self.readings, self.results = readings, results
         self.deviation, self.uncertainty = deviation, uncertainty
+        self.steady, self.steady_used = steady, used
         self._show()
 
     def _design(self) -> DesignPoint:
@@ -339,25 +630,29 @@ class FieldDataPanel(widgets.VBox):
                 nominal.pop("power", None)
                 u.pop("power", None)
             try:
-                rep = propagate_uncertainty(nominal, u, ("isentropic_efficiency", "power"),
+                rep = propagate_uncertainty(nominal, u, ("isentropic_efficiency",
+                                                         "shaft_power"),
                                             machine=self.machine.value, fluid=fluid,
                                             mechanical_efficiency=self.mech.si)
             except WorkbenchError:
                 continue
             rows.append({"row": results.index[i],
                          "U95_isentropic_efficiency": rep.expanded["isentropic_efficiency"],
-                         "U95_power": rep.expanded["power"],
+                         "U95_shaft_power": rep.expanded["shaft_power"],
                          "dominant_efficiency": rep.dominant["isentropic_efficiency"],
-                         "dominant_power": rep.dominant["power"]})
-        return pd.DataFrame(rows, columns=["row", "U95_isentropic_efficiency", "U95_power",
-                                           "dominant_efficiency", "dominant_power"])
+                         "dominant_shaft_power": rep.dominant["shaft_power"]})
+        return pd.DataFrame(rows, columns=["row", "U95_isentropic_efficiency",
+                                           "U95_shaft_power", "dominant_efficiency",
+                                           "dominant_shaft_power"])
 
     # ------------------------------------------------------------------ display
-    def _say(self, text: str):
-        self.message.value = html.escape(text)
+    def _say(self, text: str, error: bool = False):
+        colour = "#9a3b00" if error else "#333333"
+        self.message.value = (f"<div style='color:{colour};padding:2px 0'>"
+                              f"{html.escape(text)}</div>" if text else "")
 
     def _fail(self, text: str):
-        self._say(text)
+        self._say(text, error=True)
         if self.results is not None:
             self.summary.value = self.summary.value.replace(
                 "<span class='wb-fresh'>", "<span class='wb-stale' style='color:#8a8a8a'>")
@@ -365,10 +660,18 @@ class FieldDataPanel(widgets.VBox):
     def summary_numbers(self) -> dict:
         """Counts and means of the last evaluation (SI units), for printing."""
         r = self.results
-        ok = r[r["status"] == "ok"]
+        ok_rows = r["status"] == "ok"
+        ok = r[ok_rows]
+        steady = self.steady["steady"]
+        steady_ok = r[ok_rows & steady]
         return {"rows": len(r), "ok": len(ok), "flagged": len(r) - len(ok),
+                "steady": int(steady.sum()), "steady_ok": len(steady_ok),
+                "steady_window": self.steady_used[0],
                 "mean_isentropic_efficiency": float(ok["isentropic_efficiency"].mean()),
+                "mean_isentropic_efficiency_steady": float(
+                    steady_ok["isentropic_efficiency"].mean()) if len(steady_ok) else math.nan,
                 "mean_power_W": float(ok["power"].mean()),
+                "mean_shaft_power_W": float(ok["shaft_power"].mean()),
                 "mean_U95_isentropic_efficiency": float(
                     self.uncertainty["U95_isentropic_efficiency"].mean())
                 if len(self.uncertainty) else math.nan}
@@ -381,12 +684,19 @@ class FieldDataPanel(widgets.VBox):
         dominant = ""
         if len(self.uncertainty):
             dom = self.uncertainty["dominant_efficiency"].mode().iloc[0]
-            dominant = (f"; efficiency U95 about {100 * s['mean_U95_isentropic_efficiency']:.2f}"
-                        f" points, mostly from the {html.escape(dom.replace('_', ' '))}")
+            dominant = (f"<br>Efficiency U95 about "
+                        f"{100 * s['mean_U95_isentropic_efficiency']:.2f} points at the "
+                        f"sampled rows, mostly from the {html.escape(dom.replace('_', ' '))}.")
+        steady_mean = (f" ({100 * s['mean_isentropic_efficiency_steady']:.2f} % over the "
+                       "steady rows)" if math.isfinite(s["mean_isentropic_efficiency_steady"])
+                       else "")
         self.summary.value = (
-            f"<span class='wb-fresh'>{s['rows']} rows ({parts}); mean isentropic efficiency "
-            f"{100 * s['mean_isentropic_efficiency']:.2f} %, mean power "
-            f"{s['mean_power_W'] / 1e3:.1f} kW{dominant}</span>")
+            f"<div class='wb-summary'><span class='wb-fresh'><b>{s['rows']} rows</b> "
+            f"({parts}).<br><b>Steady: {s['steady']} of {s['rows']} rows</b> "
+            f"({s['steady_ok']} of them ok; window {s['steady_window']} rows).<br>"
+            f"Mean isentropic efficiency {100 * s['mean_isentropic_efficiency']:.2f} %"
+            f"{steady_mean}, mean shaft power {s['mean_shaft_power_W'] / 1e3:.1f} kW."
+            f"{dominant}</span></div>")
         self._say("" if s["flagged"] == 0 else
                   f"{s['flagged']} row(s) flagged; their messages are in the table and the CSV.")
         self._plot()
@@ -394,41 +704,71 @@ class FieldDataPanel(widgets.VBox):
         csv = self.export_frame().to_csv(index=False).encode()
         self.export.value = (
             f"<a download='results.csv' href='data:text/csv;base64,"
-            f"{base64.b64encode(csv).decode()}'>Download all {len(r)} rows as CSV</a>")
+            f"{base64.b64encode(csv).decode()}'>Download all {len(r)} rows as CSV</a>"
+            " (SI units; <code>steady</code> and each reading's largest deviation from its "
+            "window mean)")
 
     def export_frame(self) -> pd.DataFrame:
-        """Readings, status, message, results and design deviations of every row (SI)."""
-        return pd.concat([self.results, self.deviation], axis=1)
+        """Readings, status, message, results, design deviations and steady flags (SI)."""
+        return pd.concat([self.results, self.deviation, self.steady], axis=1)
 
-    def _plot(self):
+    def chart_series(self) -> dict:
+        """Chart data in display units: ``{"efficiency"|"power": {trace: (x, y, error)}}``.
+
+        x is the inlet volume flow [m³/h], y the isentropic efficiency [%] or the shaft power
+        [kW]; rows that are not ok are left out.
+        """
         r = self.results
-        ok = r[r["status"] == "ok"]
-        eff = [dict(name="rows", x=ok["inlet_volume_flow"] * 3600,
-                    y=100 * ok["isentropic_efficiency"], error=None, symbol="dot")]
-        pwr = [dict(name="rows", x=ok["inlet_volume_flow"] * 3600, y=ok["power"] / 1e3,
-                    error=None, symbol="dot")]
+        ok = (r["status"] == "ok").to_numpy()
+        steady = self.steady["steady"].to_numpy(dtype=bool)
+        flow = 3600 * r["inlet_volume_flow"].to_numpy(dtype=float)
+        eta = 100 * r["isentropic_efficiency"].to_numpy(dtype=float)
+        power = r["shaft_power"].to_numpy(dtype=float) / 1e3
+        eff_series, pwr_series = {}, {}
+        for name, pick in (("steady rows", ok & steady), ("unsteady rows", ok & ~steady)):
+            eff_series[name] = (flow[pick], eta[pick], None)
+            pwr_series[name] = (flow[pick], power[pick], None)
         u = self.uncertainty
-        if len(u):
-            at = r.loc[u["row"]]
-            eff.append(dict(name="U95 at sampled rows", x=at["inlet_volume_flow"] * 3600,
-                            y=100 * at["isentropic_efficiency"],
-                            error=100 * u["U95_isentropic_efficiency"].to_numpy(),
-                            symbol="bar"))
-            pwr.append(dict(name="U95 at sampled rows", x=at["inlet_volume_flow"] * 3600,
-                            y=at["power"] / 1e3, error=u["U95_power"].to_numpy() / 1e3,
-                            symbol="bar"))
+        at = r.loc[u["row"]]
+        q = 3600 * at["inlet_volume_flow"].to_numpy(dtype=float)
+        eff_series["U95 at sampled rows"] = (
+            q, 100 * at["isentropic_efficiency"].to_numpy(dtype=float),
+            100 * u["U95_isentropic_efficiency"].to_numpy(dtype=float))
+        pwr_series["U95 at sampled rows"] = (
+            q, at["shaft_power"].to_numpy(dtype=float) / 1e3,
+            u["U95_shaft_power"].to_numpy(dtype=float) / 1e3)
         d = self._design()
         if d.volume_flow is not None and d.isentropic_efficiency is not None:
-            eff.append(dict(name="design point", x=[d.volume_flow * 3600],
-                            y=[100 * d.isentropic_efficiency], error=None, symbol="star"))
+            eff_series["design point"] = ([3600 * d.volume_flow],
+                                          [100 * d.isentropic_efficiency], None)
         if d.volume_flow is not None and d.power is not None:
-            pwr.append(dict(name="design point", x=[d.volume_flow * 3600], y=[d.power / 1e3],
-                            error=None, symbol="star"))
-        self.plot_data = {"efficiency": eff, "power": pwr}
-        self.figure.value = (
-            "<div style='display:flex;gap:12px'>"
-            + svg_chart("Isentropic efficiency (%)", "inlet volume flow (m³/h)", eff)
-            + svg_chart("Power (kW)", "inlet volume flow (m³/h)", pwr) + "</div>")
+            pwr_series["design point"] = ([3600 * d.volume_flow], [d.power / 1e3], None)
+        return {"efficiency": eff_series, "power": pwr_series}
+
+    def _plot(self):
+        try:
+            update_field_figure(self.figure, self.chart_series())
+            refresh_view(self.figure_view, self.figure)
+        except Exception as exc:  # noqa: BLE001 - the table stays good; the chart is not
+            self._say(f"the charts could not be drawn ({type(exc).__name__}: {exc})",
+                      error=True)
+
+    def _steady_text(self, index) -> tuple[bool, str]:
+        """(steady, cell text) of a row: the readings that strayed, or why the row is not."""
+        flags = self.steady
+        if bool(flags.at[index, "steady"]):
+            return True, "yes"
+        _window, tolerances = self.steady_used
+        strayed, unknown = [], False
+        for name, tol in tolerances.items():
+            dev = flags.at[index, f"{name}_max_deviation"]
+            if not math.isfinite(dev):
+                unknown = True
+            elif dev > tol and _SHORT[name] not in strayed:
+                strayed.append(_SHORT[name])
+        if strayed:
+            return False, "no: " + ", ".join(strayed)
+        return False, "no: window incomplete" if unknown else "no"
 
     def _table_html(self) -> str:
         r = self.results
@@ -437,7 +777,7 @@ class FieldDataPanel(widgets.VBox):
         shown = shown.sort_index()
         cols = [("status", "status", None), ("message", "message", None),
                 ("isentropic_efficiency", "eff. %", lambda v: f"{100 * v:.2f}"),
-                ("power", "power kW", lambda v: f"{v / 1e3:.1f}"),
+                ("shaft_power", "shaft kW", lambda v: f"{v / 1e3:.1f}"),
                 ("inlet_volume_flow", "Q1 m³/h", lambda v: f"{3600 * v:.0f}"),
                 ("pressure_ratio", "ratio", lambda v: f"{v:.3f}")]
         if self.deviation is not None and "efficiency_deviation_points" in self.deviation:
@@ -448,93 +788,52 @@ class FieldDataPanel(widgets.VBox):
         body = []
         for index, row in shown.iterrows():
             good = row["status"] == "ok"
-            style = "" if good else " style='background:#fbe3c6'"
+            style = "" if good else f" style='background:{_FLAGGED_ROW}'"
             css = "wb-row-ok" if good else "wb-row-flagged"
+            steady, steady_text = self._steady_text(index)
+            steady_cell = ("<td class='wb-steady-yes'>yes</td>" if steady else
+                           f"<td class='wb-steady-no' style='background:{_UNSTEADY_CELL}'>"
+                           f"{html.escape(steady_text)}</td>")
             cells = []
             for key, _, fmt in cols:
                 v = row.get(key)
                 if fmt is None:
                     text = "" if v is None else str(v)
+                    cells.append(f"<td>{html.escape(text)}</td>")
                 else:
                     text = fmt(v) if isinstance(v, float) and math.isfinite(v) else "–"
-                cells.append(f"<td>{html.escape(text)}</td>")
-            body.append(f"<tr class='{css}'{style}><td>{html.escape(str(index))}</td>"
-                        f"{''.join(cells)}</tr>")
-        note = (f"<p>Showing {len(shown)} of {len(r)} rows (all flagged rows first kept); the "
-                "CSV has every row.</p>")
-        return (note + "<style>.wb-result-table td,.wb-result-table th{padding:1px 6px}</style>"
-                "<table style='font-size:85%;border-collapse:collapse'><tr><th>row</th>"
-                f"{head}</tr>{''.join(body)}</table>")
+                    cells.append(f"<td class='wb-num'>{html.escape(text)}</td>")
+            body.append(f"<tr class='{css}'{style}><td class='wb-num'>{html.escape(str(index))}"
+                        f"</td>{steady_cell}{''.join(cells)}</tr>")
+        note = (f"<p class='wb-note'>Showing {len(shown)} of {len(r)} rows (every flagged row "
+                "is kept); the CSV has every row. Flagged rows are shaded orange, cells of "
+                "unsteady rows blue-grey.</p>")
+        return (note + "<table class='wb-table'><thead><tr><th>row</th><th>steady</th>"
+                f"{head}</tr></thead><tbody>{''.join(body)}</tbody></table>")
 
 
-_COLOURS = {"dot": "#4a6fa5", "bar": "#222222", "star": "#c0392b"}
+#: Page styles of the panel (scoped to its own classes).
+_CSS = """
+.wb-panel-test-data { font-size: 13px; color: #222; }
+.wb-panel-test-data .wb-section { font-weight: 600; margin: 10px 0 4px 0; padding-bottom: 2px;
+  border-bottom: 1px solid #d4d8dd; color: #2b3a4a; }
+.wb-panel-test-data .wb-head { font-size: 11px; color: #666; text-transform: uppercase;
+  letter-spacing: 0.04em; }
+.wb-panel-test-data .wb-summary { border-left: 3px solid #2e6b8a; background: #f4f7f9;
+  padding: 6px 10px; margin: 6px 0; line-height: 1.5; }
+.wb-panel-test-data .wb-note { color: #555; margin: 4px 0; }
+.wb-panel-test-data .wb-table { border-collapse: collapse; font-size: 12px; }
+.wb-panel-test-data .wb-table th { position: sticky; top: 0; background: #eef1f4;
+  text-align: left; font-weight: 600; border-bottom: 1px solid #c8ced5; }
+.wb-panel-test-data .wb-table td, .wb-panel-test-data .wb-table th { padding: 2px 8px; }
+.wb-panel-test-data .wb-table tbody tr { border-bottom: 1px solid #eceff2; }
+.wb-panel-test-data .wb-table td.wb-num { text-align: right;
+  font-variant-numeric: tabular-nums; }
+"""
 
 
-def svg_chart(title: str, x_label: str, series: list, width: int = 430,
-              height: int = 300) -> str:
-    """A small scatter chart as inline SVG (no script): dots, points with error bars, stars."""
-    xs = np.concatenate([np.asarray(s["x"], float) for s in series]) if series else np.array([])
-    ys = np.concatenate([np.asarray(s["y"], float) - (0 if s["error"] is None else s["error"])
-                         for s in series] + [np.asarray(s["y"], float) + (
-                             0 if s["error"] is None else s["error"]) for s in series]) \
-        if series else np.array([])
-    xs, ys = xs[np.isfinite(xs)], ys[np.isfinite(ys)]
-    if not len(xs) or not len(ys):
-        return f"<svg width='{width}' height='{height}'><text x='10' y='20'>{html.escape(title)}" \
-               ": no data</text></svg>"
-    x0, x1 = float(xs.min()), float(xs.max())
-    y0, y1 = float(ys.min()), float(ys.max())
-    pad_x, pad_y = (x1 - x0) * 0.06 or 1.0, (y1 - y0) * 0.08 or 1.0
-    x0, x1, y0, y1 = x0 - pad_x, x1 + pad_x, y0 - pad_y, y1 + pad_y
-    left, right, top, bottom = 56, 10, 26, 40
-
-    def px(x):
-        return left + (x - x0) / (x1 - x0) * (width - left - right)
-
-    def py(y):
-        return height - bottom - (y - y0) / (y1 - y0) * (height - top - bottom)
-
-    out = [f"<svg xmlns='http://www.w3.org/2000/svg' width='{width}' height='{height}' "
-           "style='font:11px sans-serif;background:#fff'>",
-           f"<text x='{width / 2}' y='15' text-anchor='middle'>{html.escape(title)}</text>",
-           f"<text x='{width / 2}' y='{height - 6}' text-anchor='middle'>"
-           f"{html.escape(x_label)}</text>",
-           f"<rect x='{left}' y='{top}' width='{width - left - right}' "
-           f"height='{height - top - bottom}' fill='none' stroke='#999'/>"]
-    for k in range(5):
-        yv = y0 + (y1 - y0) * (k + 0.5) / 5
-        xv = x0 + (x1 - x0) * (k + 0.5) / 5
-        out.append(f"<text x='{left - 4}' y='{py(yv) + 4:.1f}' text-anchor='end'>{yv:.4g}</text>")
-        out.append(f"<text x='{px(xv):.1f}' y='{height - bottom + 14}' text-anchor='middle'>"
-                   f"{xv:.4g}</text>")
-    for s in series:
-        colour = _COLOURS[s["symbol"]]
-        err = s["error"]
-        for j, (x, y) in enumerate(zip(np.asarray(s["x"], float), np.asarray(s["y"], float))):
-            if not (math.isfinite(x) and math.isfinite(y)):
-                continue
-            cx, cy = px(x), py(y)
-            if s["symbol"] == "star":
-                out.append(f"<path d='M{cx},{cy - 8} L{cx + 3},{cy - 2} L{cx + 8},{cy - 2} "
-                           f"L{cx + 4},{cy + 2} L{cx + 6},{cy + 8} L{cx},{cy + 4} "
-                           f"L{cx - 6},{cy + 8} L{cx - 4},{cy + 2} L{cx - 8},{cy - 2} "
-                           f"L{cx - 3},{cy - 2} Z' fill='{colour}'/>")
-            elif s["symbol"] == "bar":
-                e = float(err[j]) if err is not None else 0.0
-                out.append(f"<line x1='{cx:.1f}' x2='{cx:.1f}' y1='{py(y - e):.1f}' "
-                           f"y2='{py(y + e):.1f}' stroke='{colour}'/>")
-                out.append(f"<rect x='{cx - 2.5:.1f}' y='{cy - 2.5:.1f}' width='5' height='5' "
-                           f"fill='{colour}'/>")
-            else:
-                out.append(f"<circle cx='{cx:.1f}' cy='{cy:.1f}' r='2' fill='{colour}' "
-                           "fill-opacity='0.6'/>")
-    legend_y = top + 12
-    for s in series:
-        out.append(f"<text x='{left + 8}' y='{legend_y}' fill='{_COLOURS[s['symbol']]}'>"
-                   f"{html.escape(s['name'])}</text>")
-        legend_y += 13
-    out.append("</svg>")
-    return "".join(out)
+def _heading(text: str) -> widgets.HTML:
+    return widgets.HTML(f"<div class='wb-section'>{html.escape(text)}</div>")
 
 
 def _nan(value):
@@ -542,4 +841,6 @@ def _nan(value):
     return 0.0 if value is None else float(value)
 
 
-__all__ = ["FieldDataPanel", "parse_fluid", "svg_chart", "DEMO_FILE", "DEMO_MAP"]
+__all__ = ["FieldDataPanel", "parse_fluid", "make_field_figure", "update_field_figure",
+           "difference_to_si", "tolerance_unit", "DEMO_FILE", "DEMO_MAP", "FIELD_TRACES",
+           "STEADY_DEFAULTS", "STEADY_WINDOW"]
