@@ -12,9 +12,12 @@ from workbench.trains import (
     CompressorStage,
     Cooler,
     Extraction,
+    PipeRun,
     PressureLoss,
     PumpStage,
+    ThrottleValve,
     Train,
+    TurbineSection,
     extraction_turbine,
     intercooled_compressor,
 )
@@ -170,3 +173,56 @@ def test_bad_train_steps_name_the_input():
         Train([PressureLoss("drop", pressure_drop=1e3), PressureLoss("drop", pressure_drop=1e3)])
     with pytest.raises(WorkbenchError, match="pump"):
         Train([PumpStage("pump", pressure_ratio=2, isentropic_efficiency=0.7)]).run(suction, 1.0)
+
+
+def test_turbine_ratio_is_inlet_over_outlet_and_named_so():
+    # A turbine's pressure ratio is quoted high over low, inlet over outlet (common practice,
+    # the convention TurbineSection documents): ratio 4 from 8 bar ends at 2 bar.  A
+    # compressor's ratio 3 from 1 bar ends at 3 bar (outlet over inlet).
+    steam = STEAM.state_PT(8e5, 573.15)
+    by_ratio = Train([TurbineSection("t", pressure_ratio=4.0, isentropic_efficiency=0.8)])
+    assert by_ratio.run(steam, 1.0).outlet.P == pytest.approx(2e5, rel=1e-12)
+    air = AIR.state_PT(1e5, 300.0)
+    stage = Train([CompressorStage("c", pressure_ratio=3.0, isentropic_efficiency=0.8)])
+    assert stage.run(air, 1.0).outlet.P == pytest.approx(3e5, rel=1e-12)
+    # The message for a bad turbine ratio must state the turbine's convention.
+    bad = Train([TurbineSection("t", pressure_ratio=-2.0, isentropic_efficiency=0.8)])
+    with pytest.raises(InputError, match="pressure ratio of 't'") as info:
+        bad.run(steam, 1.0)
+    assert "inlet over outlet" in str(info.value)
+    bad = Train([CompressorStage("c", pressure_ratio=0.0, isentropic_efficiency=0.8)])
+    with pytest.raises(InputError, match="outlet over inlet"):
+        bad.run(air, 1.0)
+
+
+def test_valve_by_pressure_drop_is_isenthalpic():
+    # Throttling is isenthalpic (common practice): outlet at P1 - dP with the inlet enthalpy,
+    # here checked against IAPWS-IF97 via iapws at 10 bar and h1.
+    steam = STEAM.state_PT(15e5, 573.15)
+    result = Train([ThrottleValve("valve", pressure_drop=5e5)]).run(steam, 2.0)
+    assert result.outlet.P == pytest.approx(10e5, rel=1e-12)
+    reference = IAPWS97(P=1.0, h=IAPWS97(P=1.5, T=573.15).h)
+    assert result.outlet.T == pytest.approx(reference.T, abs=1e-3)
+    with pytest.raises(SpecificationError, match="exactly one"):
+        Train([ThrottleValve("valve", P_out=9e5, pressure_drop=5e5)]).run(steam, 2.0)
+
+
+def test_extraction_by_fraction_keeps_the_mass_balance():
+    # Splitter mass balance (common practice): a fraction f of m leaves, (1 - f) m goes on,
+    # both in the state arriving.
+    steam = STEAM.state_PT(15e5, 573.15)
+    result = Train([Extraction("bleed", fraction=0.25)]).run(steam, 8.0)
+    branch = next(s for s in result.stations if s.role == "extraction")
+    assert branch.mass_flow == pytest.approx(2.0, rel=1e-12)
+    assert result.outlet_mass_flow == pytest.approx(6.0, rel=1e-12)
+    assert branch.state is steam and result.outlet is steam
+
+
+def test_pipe_run_rise_follows_bernoulli():
+    # Frictionless rising pipe of one diameter: P2 = P1 - rho g dz (Bernoulli, closed form);
+    # water density at 20 degC and 3 bar from IAPWS-IF97 via iapws; standard gravity
+    # g = 9.80665 m/s^2 (3rd CGPM, 1901).
+    water = Fluid("Water").state_PT(3e5, 293.15)
+    rho = IAPWS97(P=0.3, T=293.15).rho
+    result = Train([PipeRun("riser", 0.1, options={"elevation_change": 10.0})]).run(water, 5.0)
+    assert result.outlet.P == pytest.approx(3e5 - rho * 9.80665 * 10.0, rel=1e-6)

@@ -30,7 +30,7 @@ from .fluids import State
 from .machines.heat_exchanger import cooler as _cooler
 from .machines.mixer import MASS_BALANCE_TOLERANCE, mixer, splitter
 from .machines.pipe import pipe_segment
-from .machines.throttle import throttle
+from .machines.throttle import _check_state, _quality, throttle
 from .machines.turbomachine import MachineResult, energy_balance
 from .units import optional_si, to_si
 
@@ -65,7 +65,7 @@ class Station:
         st = self.state
         return {"station": self.name, "role": self.role, "pressure_Pa": st.P,
                 "temperature_K": st.T, "enthalpy_J_per_kg": st.h,
-                "entropy_J_per_kgK": st.s, "quality": math.nan if st.x is None else st.x,
+                "entropy_J_per_kgK": st.s, "quality": _quality(st),
                 "mass_flow_kg_per_s": self.mass_flow, "phase": st.phase}
 
 
@@ -92,12 +92,6 @@ class StepResult:
     stations: tuple
 
 
-def _state(name, state):
-    if not isinstance(state, State):
-        raise InputError(f"{name} must be a State from Fluid.state(...), not {type(state).__name__}")
-    return state
-
-
 def _check_flow(step, flow):
     """Refuse a step whose stated mass flow disagrees with the train's balance."""
     if step.mass_flow is None:
@@ -110,9 +104,40 @@ def _check_flow(step, flow):
             f"(allowed difference {MASS_BALANCE_TOLERANCE:g} relative)")
 
 
+def _outlet_pressure_or(step, other, kind, what):
+    """The step's ``P_out`` [Pa] and ``other`` (its ``what``, of ``kind``) in SI units.
+
+    Exactly one of the two must be given; the one not given comes back as ``None``.
+    """
+    P2 = optional_si(step.P_out, "pressure", f"outlet pressure of {step.name!r}")
+    value = optional_si(other, kind, f"{what} of {step.name!r}")
+    if (P2 is None) == (value is None):
+        raise SpecificationError(f"step {step.name!r} needs its outlet pressure or its {what} "
+                                 "(exactly one)")
+    return P2, value
+
+
 # ----------------------------------------------------------------------------- steps
+class _Step:
+    """What every step does: check a stated mass flow against the train, then act.
+
+    ``apply(inlet, flow)`` gives ``(result, outlet state, outlet mass flow [kg/s], branch
+    stations)``.  A step with one inlet and one outlet passing the whole flow on defines
+    ``_device(inlet, flow)`` (returning a result with an ``outlet``); a split or merge
+    defines ``_apply`` itself.
+    """
+
+    def apply(self, inlet, flow):
+        _check_flow(self, flow)
+        return self._apply(inlet, flow)
+
+    def _apply(self, inlet, flow):
+        result = self._device(inlet, flow)
+        return result, result.outlet, flow, ()
+
+
 @dataclass(frozen=True)
-class _MachineStep:
+class _MachineStep(_Step):
     name: str
     P_out: object = None
     pressure_ratio: object = None
@@ -124,27 +149,23 @@ class _MachineStep:
     kind = "compressor"
 
     def _outlet_pressure(self, inlet):
-        P2 = optional_si(self.P_out, "pressure", f"outlet pressure of {self.name!r}")
-        ratio = optional_si(self.pressure_ratio, "dimensionless",
-                            f"pressure ratio of {self.name!r}")
-        if (P2 is None) == (ratio is None):
-            raise SpecificationError(f"step {self.name!r} needs its outlet pressure or its "
-                                     "pressure ratio (exactly one)")
+        P2, ratio = _outlet_pressure_or(self, self.pressure_ratio, "dimensionless",
+                                        "pressure ratio")
         if ratio is not None:
+            turbine = self.kind == "turbine"
             if not ratio > 0:
+                basis = "inlet over outlet" if turbine else "outlet over inlet"
                 raise InputError(f"pressure ratio of {self.name!r} is {ratio:g}; it must be "
-                                 "positive (outlet over inlet pressure)")
-            P2 = inlet.P * ratio if self.kind != "turbine" else inlet.P / ratio
+                                 f"positive ({basis} pressure)")
+            P2 = inlet.P / ratio if turbine else inlet.P * ratio
         return P2
 
-    def apply(self, inlet, flow):
-        _check_flow(self, flow)
-        result = energy_balance(
+    def _device(self, inlet, flow):
+        return energy_balance(
             self.kind, inlet, P_out=self._outlet_pressure(inlet),
             isentropic_efficiency=self.isentropic_efficiency,
             polytropic_efficiency=self.polytropic_efficiency, mass_flow=flow,
             heat_loss=self.heat_loss, mechanical_efficiency=self.mechanical_efficiency)
-        return result, result.outlet, flow, ()
 
 
 @dataclass(frozen=True)
@@ -170,7 +191,7 @@ class PumpStage(_MachineStep):
 
 
 @dataclass(frozen=True)
-class Cooler:
+class Cooler(_Step):
     """A cooler (intercooler, aftercooler) to ``outlet_temperature`` [K] with a process-side
     ``pressure_drop`` [Pa] and, optionally, cooling water inlet/outlet temperatures [K]."""
 
@@ -182,16 +203,14 @@ class Cooler:
     mass_flow: object = None
     kind = "cooler"
 
-    def apply(self, inlet, flow):
-        _check_flow(self, flow)
-        result = _cooler(inlet, flow, self.outlet_temperature, pressure_drop=self.pressure_drop,
-                         cooling_water_inlet_temperature=self.cooling_water_inlet_temperature,
-                         cooling_water_outlet_temperature=self.cooling_water_outlet_temperature)
-        return result, result.outlet, flow, ()
+    def _device(self, inlet, flow):
+        return _cooler(inlet, flow, self.outlet_temperature, pressure_drop=self.pressure_drop,
+                       cooling_water_inlet_temperature=self.cooling_water_inlet_temperature,
+                       cooling_water_outlet_temperature=self.cooling_water_outlet_temperature)
 
 
 @dataclass(frozen=True)
-class ThrottleValve:
+class ThrottleValve(_Step):
     """An isenthalpic throttle valve to ``P_out`` [Pa] or by ``pressure_drop`` [Pa]."""
 
     name: str
@@ -200,21 +219,15 @@ class ThrottleValve:
     mass_flow: object = None
     kind = "throttle valve"
 
-    def apply(self, inlet, flow):
-        _check_flow(self, flow)
-        P2 = optional_si(self.P_out, "pressure", f"outlet pressure of {self.name!r}")
-        dP = optional_si(self.pressure_drop, "pressure", f"pressure drop of {self.name!r}")
-        if (P2 is None) == (dP is None):
-            raise SpecificationError(f"step {self.name!r} needs its outlet pressure or its "
-                                     "pressure drop (exactly one)")
+    def _device(self, inlet, flow):
+        P2, dP = _outlet_pressure_or(self, self.pressure_drop, "pressure", "pressure drop")
         if dP is not None:
             if not 0 < dP < inlet.P:
                 raise InputError(
                     f"pressure drop of {self.name!r} is {dP / 1e5:.6g} bar; it must lie in "
                     f"(0, {inlet.P / 1e5:.6g}) bar, below the inlet pressure")
             P2 = inlet.P - dP
-        result = throttle(inlet, P2, mass_flow=flow)
-        return result, result.outlet, flow, ()
+        return throttle(inlet, P2, mass_flow=flow)
 
 
 @dataclass(frozen=True)
@@ -226,7 +239,7 @@ class PressureLoss(ThrottleValve):
 
 
 @dataclass(frozen=True)
-class PipeRun:
+class PipeRun(_Step):
     """A liquid pipe segment; ``options`` are the keyword arguments of
     :func:`workbench.machines.pipe.pipe_segment` (length, elevation_change, viscosity...)."""
 
@@ -236,14 +249,12 @@ class PipeRun:
     mass_flow: object = None
     kind = "pipe"
 
-    def apply(self, inlet, flow):
-        _check_flow(self, flow)
-        result = pipe_segment(inlet, flow, self.diameter, **self.options)
-        return result, result.outlet, flow, ()
+    def _device(self, inlet, flow):
+        return pipe_segment(inlet, flow, self.diameter, **self.options)
 
 
 @dataclass(frozen=True)
-class Extraction:
+class Extraction(_Step):
     """A branch leaving the train (bleed, extraction): give its ``branch_mass_flow``
     [kg/s] or its ``fraction`` [-] of the flow arriving."""
 
@@ -253,8 +264,7 @@ class Extraction:
     mass_flow: object = None
     kind = "extraction"
 
-    def apply(self, inlet, flow):
-        _check_flow(self, flow)
+    def _apply(self, inlet, flow):
         if (self.branch_mass_flow is None) == (self.fraction is None):
             raise SpecificationError(f"extraction {self.name!r} needs its branch mass flow or "
                                      "its fraction (exactly one)")
@@ -278,7 +288,7 @@ class Extraction:
 
 
 @dataclass(frozen=True)
-class Admission:
+class Admission(_Step):
     """A stream joining the train (admission, recycle): its ``state`` and
     ``branch_mass_flow`` [kg/s]; mixing at the lower pressure."""
 
@@ -288,9 +298,8 @@ class Admission:
     mass_flow: object = None
     kind = "admission"
 
-    def apply(self, inlet, flow):
-        _check_flow(self, flow)
-        joining = _state(f"state of admission {self.name!r}", self.state)
+    def _apply(self, inlet, flow):
+        joining = _check_state(f"state of admission {self.name!r}", self.state)
         if self.branch_mass_flow is None:
             raise SpecificationError(f"admission {self.name!r} needs its branch mass flow")
         b = to_si(self.branch_mass_flow, "mass_flow", f"branch mass flow of {self.name!r}")
@@ -419,7 +428,7 @@ def _summary(step: StepResult) -> dict:
                 "isentropic_efficiency": r.isentropic_efficiency,
                 "specific_work_J_per_kg": r.specific_work, "power_W": r.power,
                 "shaft_power_W": r.shaft_power,
-                "outlet_quality": math.nan if r.outlet.x is None else r.outlet.x}
+                "outlet_quality": _quality(r.outlet)}
     d = dict(r.to_dict())
     d["kind"] = step.kind
     d.pop("device", None)
@@ -478,7 +487,7 @@ class Train:
         WorkbenchError
             Any error of a machine or device, of the same class, with the step named.
         """
-        inlet = _state("train inlet", inlet)
+        inlet = _check_state("train inlet", inlet)
         m0 = to_si(mass_flow, "mass_flow", "train inlet mass flow")
         if not m0 > 0:
             raise InputError(f"train inlet mass flow {m0:g} kg/s must be positive")
@@ -639,7 +648,7 @@ def intercooled_compressor(inlet: State, mass_flow, *, P_out=None, pressure_rati
     import numpy as np
     from scipy.optimize import brentq, minimize
 
-    inlet = _state("compressor suction state", inlet)
+    inlet = _check_state("compressor suction state", inlet)
     if isinstance(stages, bool) or not isinstance(stages, (int, np.integer)) or not 1 <= stages <= 8:
         raise InputError(f"number of stages {stages!r} must be a whole number from 1 to 8")
     P2 = optional_si(P_out, "pressure", "discharge pressure")
