@@ -106,3 +106,18 @@ def test_bad_input_shows_message_and_keeps_last_result(panel):
     assert panel.results["total-power"].shown == shown
     panel.set_input("cooler-outlet-temperature", 35.0)
     assert panel.message.value == "" and not panel.stale
+
+
+def test_turbine_stage_ratios_quoted_high_over_low(panel):
+    # Turbine section ratios are quoted inlet over exhaust, high over low (common practice):
+    # with the demo's 38 bar after the valve, 12 bar extraction and 4 bar exhaust the HP
+    # section shows 38/12 and the LP section 12/4 (plain arithmetic on the entries).
+    panel.scenario.value = "extraction turbine"
+    assert panel.message.value == ""
+    hp, lp = (float(v) for v in panel.results["stage-ratios"].shown.split(","))
+    assert hp == pytest.approx(38.0 / 12.0, rel=1e-3)
+    assert lp == pytest.approx(12.0 / 4.0, rel=1e-3)
+    # The h-s chart follows the stations: five main-line points (inlet and the outlets of the
+    # valve, the HP section, the extraction and the LP section) and the extraction branch.
+    assert len(panel.hs_chart.data[0].x) == 5 and len(panel.hs_chart.data[1].x) == 1
+    assert list(panel.power_bars.data[0].x) == ["HP section", "LP section"]

@@ -25,6 +25,7 @@ import plotly.graph_objects as go
 from .. import SAFETY_CAUTION
 from ..fluids import Fluid
 from ..trains import extraction_turbine, intercooled_compressor
+from .charts import sync_figure
 from .common import (
     NumberEntry,
     ResultField,
@@ -68,6 +69,9 @@ TURBINE_ENTRIES = {
     "hp-efficiency": ("HP isentropic efficiency", "percent", 0.78),
     "lp-efficiency": ("LP isentropic efficiency", "percent", 0.75),
 }
+
+#: Every entry of both scenarios, compressor first.
+_ALL_ENTRIES = {**COMPRESSOR_ENTRIES, **TURBINE_ENTRIES}
 
 #: Results: hook name -> (label, kind).
 RESULTS = {
@@ -127,14 +131,13 @@ class TrainPanel(widgets.VBox):
         for w in (self.gas, self.stages, self.ratio_method):
             w.observe(lambda _: self.recalculate(), names="value")
         self.entries = {}
-        for table in (COMPRESSOR_ENTRIES, TURBINE_ENTRIES):
-            for name, (label, kind, default) in table.items():
-                self.entries[name] = NumberEntry(name, label, _entry_kind(kind), default,
-                                                 on_change=lambda _: self.recalculate(),
-                                                 system=system)
-                self.entries[name].unit.value = _pretty(system, kind)
-                self.entries[name].label.layout.width = "210px"
-                self.entries[name].layout.width = "400px"
+        for name, (label, kind, default) in _ALL_ENTRIES.items():
+            self.entries[name] = NumberEntry(name, label, _entry_kind(kind), default,
+                                             on_change=lambda _: self.recalculate(),
+                                             system=system)
+            self.entries[name].unit.value = _pretty(system, kind)
+            self.entries[name].label.layout.width = "210px"
+            self.entries[name].layout.width = "400px"
         self.compressor_box = widgets.VBox(
             [self.gas, self.stages, self.ratio_method]
             + [self.entries[n] for n in COMPRESSOR_ENTRIES])
@@ -181,10 +184,9 @@ class TrainPanel(widgets.VBox):
 
     def _units_changed(self, change):
         self.system = change["new"]
-        tables = {**COMPRESSOR_ENTRIES, **TURBINE_ENTRIES}
         for name, entry in self.entries.items():
             entry.set_system(self.system, 101325.0)
-            entry.unit.value = _pretty(self.system, tables[name][1])
+            entry.unit.value = _pretty(self.system, _ALL_ENTRIES[name][1])
         if self.result is not None:
             self._show(self.result)
 
@@ -240,6 +242,11 @@ class TrainPanel(widgets.VBox):
         shown = from_si(self.system, value, kind)
         return f"{format_number(shown, kind)} {unit_label(self.system, kind)}".strip()
 
+    def _hs_points(self, stations):
+        """Entropy and enthalpy of ``stations`` in display units (h-s chart x and y)."""
+        return ([from_si(self.system, s.state.s, "specific_entropy") for s in stations],
+                [from_si(self.system, s.state.h, "specific_enthalpy") for s in stations])
+
     def _show(self, result):
         train = result.train
         power = train.absorbed_power if train.absorbed_power else train.delivered_power
@@ -267,15 +274,13 @@ class TrainPanel(widgets.VBox):
             self.power_bars.layout.yaxis.title = f"shaft power [{p_unit}]"
         with self.hs_chart.batch_update():
             line, branches = self.hs_chart.data
-            line.x = [from_si(self.system, s.state.s, "specific_entropy") for s in main]
-            line.y = [from_si(self.system, s.state.h, "specific_enthalpy") for s in main]
+            line.x, line.y = self._hs_points(main)
             line.text = [str(i) for i in range(len(main))]
-            branches.x = [from_si(self.system, s.state.s, "specific_entropy") for s in side]
-            branches.y = [from_si(self.system, s.state.h, "specific_enthalpy") for s in side]
+            branches.x, branches.y = self._hs_points(side)
             self.hs_chart.layout.xaxis.title = f"s [{s_unit}]"
             self.hs_chart.layout.yaxis.title = f"h [{h_unit}]"
-        _sync(self.power_bars)
-        _sync(self.hs_chart)
+        sync_figure(self.power_bars)
+        sync_figure(self.hs_chart)
 
     def _station_table(self, train) -> str:
         sys_ = self.system
@@ -305,24 +310,6 @@ class TrainPanel(widgets.VBox):
                                          for v in values) + "</tr>")
         return "<table style='border-collapse:collapse;font-size:90%'>" + "".join(rows) + \
             "</table>"
-
-
-def _sync(fig):
-    """Put a FigureWidget's current data and layout into its model state.
-
-    In-place trace updates reach only views already drawn; a dashboard that draws the
-    widget later starts from the model state, so keep that current too.
-    """
-    import copy
-
-    try:
-        if fig.has_trait("_widget_data"):  # plotly >= 6
-            fig._widget_data = copy.deepcopy(fig._data)
-            fig._widget_layout = copy.deepcopy(fig._layout_obj._props)
-        elif fig.has_trait("_data"):  # plotly 5
-            fig.send_state(["_data", "_layout"])
-    except (AttributeError, TypeError):
-        pass
 
 
 def _plain(exc) -> str:
