@@ -2,8 +2,13 @@
 
 The point helpers only turn states from the calculation layer (``Fluid.saturation_curve``,
 ``Fluid.isobar``, ``polytropic.polytropic_path``) into arrays for plotting.  The figures are
-built once with a fixed set of traces; :func:`update_process_figures` changes the traces in
-place inside ``batch_update`` so a front end only redraws.
+built once with a fixed set of traces; :func:`update_process_figure` (both diagrams side by
+side in one FigureWidget, :func:`make_process_figure`) and :func:`update_process_figures`
+(one FigureWidget per diagram) change the traces in place inside ``batch_update`` so a front
+end only redraws.  :func:`update_sweep_figure` does the same for a sweep figure.
+
+Every FigureWidget carries the plotly JavaScript bundle (megabytes) to the page, so a panel
+should make as few of them as it can, and only when they are shown.
 """
 
 from __future__ import annotations
@@ -20,6 +25,23 @@ from .common import from_si, unit_label
 #: Trace order of each process figure.
 TRACE_NAMES = ("saturation dome", "inlet isobar", "outlet isobar", "polytropic path",
                "isentropic line", "inlet / outlet", "isentropic end")
+
+#: Keys of :func:`process_points` in trace order.
+_POINT_ORDER = ("dome", "inlet isobar", "outlet isobar", "path", "isentropic", "ends",
+                "iso end")
+
+
+def _trace_styles():
+    return [
+        dict(mode="lines", line=dict(color="#777777", width=1)),
+        dict(mode="lines", line=dict(color="#4a7fb0", width=1, dash="dot")),
+        dict(mode="lines", line=dict(color="#b0704a", width=1, dash="dot")),
+        dict(mode="lines", line=dict(color="#222222", width=2)),
+        dict(mode="lines", line=dict(color="#6a9a5a", width=1, dash="dash")),
+        dict(mode="markers+text", marker=dict(color="#222222", size=8),
+             textposition="top center"),
+        dict(mode="markers", marker=dict(color="#6a9a5a", size=8, symbol="x")),
+    ]
 
 def _arrays(states):
     """(s, h, T) arrays in SI units of a list of states; ``None`` entries become NaN."""
@@ -82,17 +104,7 @@ def make_process_figures(width: int = 560, height: int = 400):
     figures = []
     for y_title in ("specific enthalpy", "temperature"):
         fig = new_figure()
-        styles = [
-            dict(mode="lines", line=dict(color="#777777", width=1)),
-            dict(mode="lines", line=dict(color="#4a7fb0", width=1, dash="dot")),
-            dict(mode="lines", line=dict(color="#b0704a", width=1, dash="dot")),
-            dict(mode="lines", line=dict(color="#222222", width=2)),
-            dict(mode="lines", line=dict(color="#6a9a5a", width=1, dash="dash")),
-            dict(mode="markers+text", marker=dict(color="#222222", size=8),
-                 textposition="top center"),
-            dict(mode="markers", marker=dict(color="#6a9a5a", size=8, symbol="x")),
-        ]
-        for name, style in zip(TRACE_NAMES, styles):
+        for name, style in zip(TRACE_NAMES, _trace_styles()):
             fig.add_scatter(x=[], y=[], name=name, **style)
         fig.update_layout(width=width, height=height, margin=dict(l=60, r=10, t=30, b=90),
                           title=dict(text=f"{y_title} vs entropy", font=dict(size=13)),
@@ -101,6 +113,90 @@ def make_process_figures(width: int = 560, height: int = 400):
         sync_figure(fig)
         figures.append(fig)
     return figures
+
+
+def make_process_figure(width: int = 1120, height: int = 420):
+    """One empty FigureWidget with the h-s diagram (left) and the T-s diagram (right).
+
+    Traces 0 to 6 are the h-s diagram, 7 to 13 the T-s diagram, each in the order of
+    :data:`TRACE_NAMES`; a legend entry toggles the curve in both diagrams.
+    """
+    fig = new_figure()
+    for panel, (x_axis, y_axis) in enumerate((("x", "y"), ("x2", "y2"))):
+        for name, style in zip(TRACE_NAMES, _trace_styles()):
+            fig.add_scatter(x=[], y=[], name=name, legendgroup=name, showlegend=panel == 0,
+                            xaxis=x_axis, yaxis=y_axis, **style)
+    titles = ("specific enthalpy vs entropy", "temperature vs entropy")
+    fig.update_layout(
+        width=width, height=height, margin=dict(l=60, r=10, t=36, b=90),
+        template="simple_white",
+        xaxis=dict(domain=[0.0, 0.45]), yaxis=dict(anchor="x"),
+        xaxis2=dict(domain=[0.55, 1.0]), yaxis2=dict(anchor="x2"),
+        legend=dict(font=dict(size=10), orientation="h", y=-0.22),
+        annotations=[dict(text=t, x=x, y=1.0, xref="paper", yref="paper", xanchor="center",
+                          yanchor="bottom", showarrow=False, font=dict(size=13))
+                     for t, x in zip(titles, (0.225, 0.775))])
+    sync_figure(fig)
+    return fig
+
+
+def _process_xy(points, system):
+    """Display-unit ``(x, y)`` lists per trace and the focus ranges, for both diagrams.
+
+    Returns
+    -------
+    list of tuple
+        For the h-s and the T-s diagram: (list of (x, y) per trace, x range, y range).
+    """
+    out = []
+    for y_kind, col in (("specific_enthalpy", 1), ("temperature", 2)):
+        traces, focus_x, focus_y = [], [], []
+        for key in _POINT_ORDER:
+            s, h, T = points[key]
+            x = np.asarray(from_si(system, np.asarray(s, dtype=float), "specific_entropy"),
+                           dtype=float)
+            y = np.asarray(from_si(system, np.asarray((h, T)[col - 1], dtype=float), y_kind),
+                           dtype=float)
+            traces.append((list(np.atleast_1d(x)), list(np.atleast_1d(y))))
+            if key != "dome":
+                focus_x.extend(np.atleast_1d(x))
+                focus_y.extend(np.atleast_1d(y))
+        out.append((traces, _range(focus_x), _range(focus_y)))
+    return out
+
+
+def update_process_figure(fig, points, system="bar, degC"):
+    """Put process points into the figure of :func:`make_process_figure`, in place.
+
+    Parameters
+    ----------
+    fig : plotly.graph_objects.FigureWidget
+        From :func:`make_process_figure` (the same object is kept).
+    points : dict
+        From :func:`process_points`.
+    system : str or UnitSystem
+        Display unit system of the axes.
+    """
+    s_unit = unit_label(system, "specific_entropy")
+    h_unit = unit_label(system, "specific_enthalpy")
+    T_unit = unit_label(system, "temperature")
+    n = len(TRACE_NAMES)
+    with fig.batch_update():
+        for panel, (traces, x_range, y_range) in enumerate(_process_xy(points, system)):
+            for i, (x, y) in enumerate(traces):
+                fig.data[panel * n + i].x = x
+                fig.data[panel * n + i].y = y
+            fig.data[panel * n + 5].text = ["inlet", "outlet"]
+            x_axis = fig.layout.xaxis if panel == 0 else fig.layout.xaxis2
+            y_axis = fig.layout.yaxis if panel == 0 else fig.layout.yaxis2
+            x_axis.title.text = f"specific entropy [{s_unit}]"
+            y_axis.title.text = (f"specific enthalpy [{h_unit}]" if panel == 0
+                                 else f"temperature [{T_unit}]")
+            if x_range:
+                x_axis.range = x_range
+            if y_range:
+                y_axis.range = y_range
+    sync_figure(fig)
 
 
 def _range(values, pad=0.08):
@@ -205,19 +301,49 @@ def make_sweep_figure(width: int = 700, height: int = 340):
 def sweep_figure(x, columns: dict, x_title: str, width: int = 700, height: int = 340):
     """A new FigureWidget of sweep columns against ``x`` (NaN rows are gaps).
 
-    A sweep runs on demand, so its figure is built whole with its data: a front end then
-    draws it from its initial state.
+    Built whole with its data, so a front end draws it from its initial state; later
+    sweeps go into the same figure with :func:`update_sweep_figure`.
     """
     fig = make_sweep_figure(width, height)
-    names = list(columns)
-    for i, (name, values) in enumerate(columns.items()):
-        fig.add_scatter(x=list(x), y=list(values), name=name, mode="lines+markers",
-                        connectgaps=False, yaxis="y" if i == 0 else "y2")
-    fig.update_layout(
-        xaxis=dict(title=dict(text=x_title)),
-        yaxis=dict(title=dict(text=names[0] if names else "")),
-        yaxis2=dict(overlaying="y", side="right", visible=len(names) > 1,
-                    title=dict(text=", ".join(names[1:]))),
-        legend=dict(orientation="h", y=-0.3))
-    sync_figure(fig)
+    update_sweep_figure(fig, x, columns, x_title)
     return fig
+
+
+def update_sweep_figure(fig, x, columns: dict, x_title: str):
+    """Put sweep columns into an existing sweep figure, in place (same figure object).
+
+    Existing traces are reused, missing ones added and extra ones removed; the first
+    column is drawn on the left axis, the others on the right axis.
+
+    Parameters
+    ----------
+    fig : plotly.graph_objects.FigureWidget
+        From :func:`make_sweep_figure` or :func:`sweep_figure`.
+    x : sequence of float
+        Swept input values in display units.
+    columns : dict
+        Column name (with its unit) -> values in display units; NaN values are gaps.
+    x_title : str
+        Title of the x axis (name and unit of the swept input).
+    """
+    names = list(columns)
+    x = [float(v) for v in x]
+    with fig.batch_update():
+        if len(fig.data) > len(names):
+            fig.data = fig.data[:len(names)]
+        for i, (name, values) in enumerate(columns.items()):
+            y = [float(v) for v in values]
+            axis = "y" if i == 0 else "y2"
+            if i < len(fig.data):
+                trace = fig.data[i]
+                trace.x, trace.y, trace.name, trace.yaxis = x, y, name, axis
+            else:
+                fig.add_scatter(x=x, y=y, name=name, mode="lines+markers",
+                                connectgaps=False, yaxis=axis)
+        fig.update_layout(
+            xaxis=dict(title=dict(text=x_title)),
+            yaxis=dict(title=dict(text=names[0] if names else "")),
+            yaxis2=dict(overlaying="y", side="right", visible=len(names) > 1,
+                        title=dict(text=", ".join(names[1:]))),
+            legend=dict(orientation="h", y=-0.3))
+    sync_figure(fig)

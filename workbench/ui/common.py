@@ -162,25 +162,110 @@ def round_for_entry(value: float) -> float:
     return float(f"{value:.8g}")
 
 
+def scale_zero(system, kind: str, ambient_pressure: float = DEFAULT_AMBIENT) -> float:
+    """Display value of the physical zero of ``kind``: absolute zero temperature, zero
+    absolute pressure (minus the ambient pressure on a gauge scale), else 0.
+
+    Parameters
+    ----------
+    system : str or UnitSystem
+        Display unit system.
+    kind : str
+        Kind of quantity.
+    ambient_pressure : float
+        Ambient pressure [Pa] for gauge pressures.
+
+    Returns
+    -------
+    float
+        The zero in display units (-273.15 for degC, -459.67 for degF, -ambient for gauge).
+    """
+    if kind in ("temperature", "pressure", "absolute_pressure"):
+        return float(from_si(system, 0.0, kind, ambient_pressure))
+    return 0.0
+
+
+def round_for_kind(value: float, kind: str, system="SI",
+                   ambient_pressure: float = DEFAULT_AMBIENT, significant: int = 5) -> float:
+    """A display value rounded for an entry field: ``significant`` figures of the quantity.
+
+    :func:`round_for_entry` keeps 8 significant digits of the number shown, so a converted
+    value keeps long decimals (20 bar shows as 290.07548 psi), and it counts the digits of
+    the number on the display scale, which for an offset scale is not the quantity: 0.3 degC
+    would keep 8 digits of 0.3.  Here the figures are counted on the absolute quantity
+    (temperature above absolute zero, gauge pressure plus ambient), so 303.15 K, 30 degC
+    and 86 degF are all shown to 0.01 degree, 18.98675 bar(g) to 0.001 bar.
+
+    Parameters
+    ----------
+    value : float
+        Number in display units.
+    kind : str
+        Kind of quantity (see :func:`from_si`).
+    system : str or UnitSystem
+        Display unit system of ``value``.
+    ambient_pressure : float
+        Ambient pressure [Pa] for gauge pressures.
+    significant : int
+        Significant figures kept [-].
+
+    Returns
+    -------
+    float
+        The rounded number; zero and non-finite values are returned unchanged.
+    """
+    if not math.isfinite(value) or value == 0:
+        return value
+    magnitude = abs(value - scale_zero(system, kind, ambient_pressure))
+    if not magnitude > 0:  # at the physical zero itself: round the number shown
+        magnitude = abs(value)
+    decimals = (significant - 1) - int(math.floor(math.log10(magnitude)))
+    rounded = round(value, decimals)
+    return float(rounded) if rounded != 0 else 0.0
+
+
+def quoted_unit(system, kind: str) -> str:
+    """Unit as quoted in a message: :func:`unit_label`, except an absolute pressure in psi
+    is ``psia`` (common practice in US customary units, where psi alone is ambiguous)."""
+    label = unit_label(system, kind)
+    if kind in ("pressure", "absolute_pressure") and label == "psi":
+        return "psia"
+    return label
+
+
+def format_typed(value: float) -> str:
+    """Text of a number as typed: up to 10 significant digits, no trailing zeros."""
+    return f"{value:.10g}"
+
+
 class NumberEntry(widgets.HBox):
     """A labelled number entry (``FloatText``) with its unit, CSS class ``wb-input-<name>``.
 
     The entry keeps its value in SI units in :attr:`si`; the field shows it in the display
     unit system.  ``on_change(entry)`` is called after the user changes the number.
+
+    A number typed (or set with :meth:`set_display`) is remembered with the unit system it
+    was typed in: shown in that system again it comes back exactly as typed, whatever unit
+    switches happened in between.  A converted value is rounded for the field, to 8
+    significant digits (:func:`round_for_entry`) or, with ``significant`` given, to that many
+    figures of the quantity (:func:`round_for_kind`).  Neither changes :attr:`si`.
     """
 
     def __init__(self, name: str, label: str, kind: str, si_value: float, on_change=None,
-                 system="SI", ambient_pressure: float = DEFAULT_AMBIENT, width="330px"):
+                 system="SI", ambient_pressure: float = DEFAULT_AMBIENT, width="330px",
+                 significant: int | None = None):
         self.name = name
         self.kind = kind
         self.si = float(si_value)
+        self.significant = significant
         self._system = _system(system)
         self._ambient = ambient_pressure
         self._on_change = on_change
         self._quiet = False
+        self._typed = None  # (system, ambient, display value, si) of the last typed number
         self.field = widgets.FloatText(
-            value=round_for_entry(from_si(self._system, self.si, kind, ambient_pressure)),
-            continuous_update=False, layout=widgets.Layout(width="120px"))
+            value=self._rounded(), continuous_update=False,
+            layout=widgets.Layout(width="120px"))
         self.label = widgets.Label(label, layout=widgets.Layout(width="170px"))
         self.unit = widgets.Label(unit_label(self._system, kind),
                                   layout=widgets.Layout(width="60px"))
@@ -194,10 +279,52 @@ class NumberEntry(widgets.HBox):
         """The number shown, in display units."""
         return self.field.value
 
+    @property
+    def display_value(self) -> float:
+        """The SI value in display units, unrounded: the number as typed when it was typed
+        in the current unit system, else the exact conversion."""
+        typed = self._typed_value()
+        if typed is not None:
+            return typed
+        return float(from_si(self._system, self.si, self.kind, self._ambient))
+
+    @property
+    def system(self):
+        """The display unit system (``UnitSystem``)."""
+        return self._system
+
+    @property
+    def ambient_pressure(self) -> float:
+        """Ambient pressure [Pa] of gauge pressures."""
+        return self._ambient
+
+    def _typed_value(self):
+        if self._typed is None:
+            return None
+        system, ambient, value, si = self._typed
+        if system != self._system or si != self.si:
+            return None
+        if ambient != self._ambient and self.kind == "pressure" and self._system.gauge:
+            return None
+        return value
+
+    def _remember(self, value: float):
+        self._typed = (self._system, self._ambient, float(value), self.si)
+
+    def _rounded(self) -> float:
+        typed = self._typed_value()
+        if typed is not None:
+            return typed
+        value = from_si(self._system, self.si, self.kind, self._ambient)
+        if self.significant is None:
+            return round_for_entry(value)
+        return round_for_kind(value, self.kind, self._system, self._ambient, self.significant)
+
     def _changed(self, change):
         if self._quiet:
             return
         self.si = float(to_si(self._system, change["new"], self.kind, self._ambient))
+        self._remember(change["new"])
         if self._on_change is not None:
             self._on_change(self)
 
@@ -206,6 +333,7 @@ class NumberEntry(widgets.HBox):
         value = float(value)
         if value == self.field.value:
             self.si = float(to_si(self._system, value, self.kind, self._ambient))
+            self._remember(value)
             if notify and self._on_change is not None:
                 self._on_change(self)
             return
@@ -216,6 +344,7 @@ class NumberEntry(widgets.HBox):
             try:
                 self.field.value = value
                 self.si = float(to_si(self._system, value, self.kind, self._ambient))
+                self._remember(value)
             finally:
                 self._quiet = False
 
@@ -234,8 +363,7 @@ class NumberEntry(widgets.HBox):
     def _refresh(self):
         self._quiet = True
         try:
-            self.field.value = round_for_entry(
-                from_si(self._system, self.si, self.kind, self._ambient))
+            self.field.value = self._rounded()
         finally:
             self._quiet = False
 

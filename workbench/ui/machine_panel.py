@@ -6,6 +6,16 @@ core (:func:`workbench.energy_balance`) on every change, shows the results in th
 display unit system and draws the process on h-s and T-s charts.  No thermodynamics is done
 here: states come from :class:`workbench.Fluid`, balances from :mod:`workbench.machines`.
 
+Entries are checked against their physical limits in the units they were typed in before
+the core is called (absolute pressure and temperature above zero, flows above zero,
+efficiencies above 0 and at most 100 %), so a message quotes the entry as the user typed it;
+every other error comes from the core unchanged.  Entries show converted values to five
+significant figures of the quantity, while the SI value held stays exactly what was typed.
+
+The numbers come first: the process charts (one plotly FigureWidget with both diagrams)
+are built when their tab is first opened, and the sweep figure when the first sweep runs;
+both are then updated in place.
+
 Test hooks: every entry has the CSS class ``wb-input-<name>``, every result
 ``wb-result-<name>``, the message area ``wb-message`` (names in :data:`ENTRIES`,
 :data:`CHOICES` and :data:`RESULTS`).
@@ -40,13 +50,19 @@ from .common import (
     caution_banner,
     choice,
     format_number,
+    format_typed,
     from_si,
     message_area,
+    quoted_unit,
     round_for_entry,
+    scale_zero,
     to_si,
     unit_label,
     unit_switch,
 )
+
+#: Significant figures of the quantity shown in an entry after a unit conversion.
+ENTRY_FIGURES = 5
 
 #: Standard reference conditions of standard volume flow: 15 degC, 1.01325 bar
 #: (ISO 13443, common practice for natural gas).
@@ -74,6 +90,22 @@ ENTRIES = {
     "polytropic-efficiency": ("polytropic_efficiency", "polytropic efficiency", "percent"),
     "measured-power": ("power_W", "measured shaft power", "power"),
     "ambient-pressure": ("ambient_pressure_Pa", "ambient pressure", "absolute_pressure"),
+}
+
+#: Entries checked against a physical limit before the core is called: hook name -> limit.
+#: ``"absolute"``: above the physical zero of the scale (absolute zero of temperature, zero
+#: absolute pressure); ``"positive"``: above 0; ``"efficiency"``: above 0 and at most 100 %.
+PHYSICAL_LIMITS = {
+    "inlet-pressure": "absolute",
+    "outlet-pressure": "absolute",
+    "ambient-pressure": "absolute",
+    "inlet-temperature": "absolute",
+    "outlet-temperature": "absolute",
+    "mass-flow": "positive",
+    "volume-flow": "positive",
+    "mechanical-efficiency": "efficiency",
+    "isentropic-efficiency": "efficiency",
+    "polytropic-efficiency": "efficiency",
 }
 
 #: Dropdowns: hook name -> (input key, label, options).
@@ -314,6 +346,11 @@ def composition_text(composition: dict) -> str:
     return "\n".join(f"{name} {value:.6g}" for name, value in composition.items())
 
 
+#: Tabs below the entries; the process charts are built when their tab is first opened.
+TAB_TITLES = ("process states", "process charts", "sweep", "case file")
+_CHART_TAB = TAB_TITLES.index("process charts")
+
+
 def _h(text, level=4):
     return widgets.HTML(f"<h{level} style='margin:6px 0 2px 0'>{html.escape(text)}</h{level}>")
 
@@ -350,6 +387,9 @@ class MachinePanel(widgets.VBox):
         self.result = None
         self.stale = False
         self._points = None
+        self._points_of = None
+        self.figure = None
+        self.sweep_figure = None
         self.sweep_table = None
         self.sweep_csv = ""
         self._build()
@@ -381,7 +421,8 @@ class MachinePanel(widgets.VBox):
         for name, (key, label, kind) in ENTRIES.items():
             self.entries[name] = NumberEntry(name, label, kind, inp[key],
                                              on_change=self._guard(self._entry_changed),
-                                             system=self.system, ambient_pressure=self.ambient)
+                                             system=self.system, ambient_pressure=self.ambient,
+                                             significant=ENTRY_FIGURES)
         self.choices = {}
         for name, (key, label, options) in CHOICES.items():
             w = choice(name, label, options, inp[key])
@@ -412,8 +453,12 @@ class MachinePanel(widgets.VBox):
         self.results = {name: ResultField(name, label, kind)
                         for name, (label, kind, _get) in RESULTS.items()}
 
-        self.figures = charts.make_process_figures()
-        self.figure_views = [charts.figure_view(f) for f in self.figures]
+        self.states_html = widgets.HTML("", layout=widgets.Layout(width="auto"))
+        self.states_html.add_class("wb-result-states")
+        self.chart_box = widgets.Box([widgets.HTML(
+            "<i style='color:#8a8a8a'>drawing the h-s and T-s diagrams ...</i>")],
+            layout=widgets.Layout(flex_flow="row wrap"))
+        self.chart_box.add_class("wb-process-charts")
         self._build_sweep()
         self._build_case_tools()
         self._show_composition_sum()
@@ -425,10 +470,12 @@ class MachinePanel(widgets.VBox):
         kind = ENTRIES[inp["sweep_input"]][2]
         self.sweep_start = NumberEntry("sweep-start", "from", kind, inp["sweep_start"],
                                        on_change=self._guard(self._sweep_entry_changed),
-                                       system=self.system, ambient_pressure=self.ambient)
+                                       system=self.system, ambient_pressure=self.ambient,
+                                       significant=ENTRY_FIGURES)
         self.sweep_stop = NumberEntry("sweep-stop", "to", kind, inp["sweep_stop"],
                                       on_change=self._guard(self._sweep_entry_changed),
-                                      system=self.system, ambient_pressure=self.ambient)
+                                      system=self.system, ambient_pressure=self.ambient,
+                                      significant=ENTRY_FIGURES)
         self.sweep_points = widgets.BoundedIntText(
             value=inp["sweep_points"], min=2, max=200, description="points",
             continuous_update=False, style={"description_width": "170px"},
@@ -445,8 +492,8 @@ class MachinePanel(widgets.VBox):
                                            layout=widgets.Layout(width="160px"))
         self.sweep_button.add_class("wb-input-sweep-run")
         self.sweep_button.on_click(self._guard(lambda _b: self.run_sweep()))
-        self.sweep_figure = charts.make_sweep_figure()
-        self.sweep_view = widgets.Box([charts.figure_view(self.sweep_figure)])
+        self.sweep_view = widgets.Box([widgets.HTML(
+            "<i style='color:#8a8a8a'>run a sweep to draw its chart</i>")])
         self.sweep_note = widgets.HTML("")
         self.sweep_note.add_class("wb-result-sweep-note")
         self.sweep_link = widgets.HTML("")
@@ -498,7 +545,6 @@ class MachinePanel(widgets.VBox):
         header = widgets.HBox([self.title_html, self.units, self.entries["ambient-pressure"]],
                               layout=widgets.Layout(justify_content="space-between",
                                                     align_items="center", width="100%"))
-        chart_box = widgets.HBox(self.figure_views, layout=widgets.Layout(flex_flow="row wrap"))
         sweep_box = widgets.VBox([
             widgets.HBox([
                 widgets.VBox([self.sweep_input, self.sweep_start, self.sweep_stop,
@@ -512,10 +558,13 @@ class MachinePanel(widgets.VBox):
             widgets.HBox([self.save_button, self.case_link]),
             widgets.HTML("<small>Case files are plain JSON with SI values; they are checked "
                          "before anything changes.</small>")])
-        tabs = widgets.Tab([chart_box, sweep_box, case_box])
-        for i, t in enumerate(("process charts", "sweep", "case file")):
+        tabs = widgets.Tab([self.states_html, self.chart_box, sweep_box, case_box])
+        for i, t in enumerate(TAB_TITLES):
             tabs.set_title(i, t)
         tabs.add_class("wb-tabs")
+        tabs.selected_index = 0
+        tabs.observe(self._guard(self._tab_changed), names="selected_index")
+        self.tabs = tabs
         inputs_row = widgets.HBox([fluid_col, state_col, result_col],
                                   layout=widgets.Layout(flex_flow="row wrap"))
         return [header, self.caution, self.message_html, inputs_row, tabs]
@@ -551,19 +600,21 @@ class MachinePanel(widgets.VBox):
                 self._set_unit_system(system)
                 new["unit_system"] = system
             values = {_hook(k): v for k, v in values.items()}
+            typed = {}  # entry -> number as typed (display units), shown as typed
             if "ambient-pressure" in values:
-                ambient = float(to_si(self.system, _as_float(values.pop("ambient-pressure"),
-                                                             "ambient pressure"),
-                                      "absolute_pressure"))
-                if not ambient > 0:
-                    raise InputError(f"ambient pressure {ambient:g} Pa must be positive")
+                number = _as_float(values.pop("ambient-pressure"), "ambient pressure")
+                problem = self._limit_problem("ambient-pressure", number)
+                if problem:
+                    raise InputError(problem)
+                ambient = float(to_si(self.system, number, "absolute_pressure"))
                 new["ambient_pressure_Pa"] = ambient
+                typed["ambient-pressure"] = number
                 if case_files.UNIT_SYSTEMS[self.system].gauge:
                     # a gauge reading stays as shown; its absolute value follows the ambient
                     for name, (key, _label, kind) in ENTRIES.items():
                         if kind == "pressure":
-                            new[key] = float(to_si(self.system, self.entries[name].value,
-                                                   kind, ambient))
+                            typed[name] = self.entries[name].display_value
+                            new[key] = float(to_si(self.system, typed[name], kind, ambient))
             for raw, value in values.items():
                 name = _hook(raw)
                 if name in ENTRIES:
@@ -571,6 +622,7 @@ class MachinePanel(widgets.VBox):
                     number = _as_float(value, name)
                     new[key] = float(to_si(self.system, number, kind, new["ambient_pressure_Pa"]))
                     new.update(_selected_by(name))
+                    typed[name] = number
                 elif name in CHOICES:
                     key, _label, options = CHOICES[name]
                     if value not in options:
@@ -589,7 +641,28 @@ class MachinePanel(widgets.VBox):
             return False
         self._inputs = new
         self._refresh_widgets()
-        return self._recalculate()
+        self._quiet = True
+        try:
+            for name, number in typed.items():
+                self.entries[name].set_display(number, notify=False)  # shown as typed
+        finally:
+            self._quiet = False
+        return self._recalculate(first=tuple(typed))
+
+    def show_charts(self) -> bool:
+        """Build the process charts if not built yet and draw the last good result.
+
+        Called when the "process charts" tab is opened; True when a chart is shown.
+        """
+        if self.figure is None:
+            self.figure = charts.make_process_figure()
+            self.chart_box.children = (charts.figure_view(self.figure),)
+        return self._draw_charts()
+
+    @property
+    def figures(self) -> list:
+        """The process chart FigureWidgets built so far (one, with both diagrams)."""
+        return [] if self.figure is None else [self.figure]
 
     def to_case(self) -> dict:
         """The whole panel state as a case dict (SI values; see :mod:`workbench.ui.cases`)."""
@@ -712,8 +785,12 @@ class MachinePanel(widgets.VBox):
             columns[col] = table[col].tolist()
         self.sweep_table = table
         self.sweep_csv = table.to_csv(index=False)
-        self.sweep_figure = charts.sweep_figure(x_values, columns, x_col)
-        self.sweep_view.children = (charts.figure_view(self.sweep_figure),)
+        if self.sweep_figure is None:  # the first sweep builds the figure with its data
+            self.sweep_figure = charts.sweep_figure(x_values, columns, x_col)
+            self.sweep_view.children = (charts.figure_view(self.sweep_figure),)
+        else:  # later sweeps change it in place
+            charts.update_sweep_figure(self.sweep_figure, x_values, columns, x_col)
+            charts.refresh_view(self.sweep_view.children[0], self.sweep_figure)
         encoded = base64.b64encode(self.sweep_csv.encode("utf-8")).decode("ascii")
         self.sweep_link.value = (f"<a download='sweep.csv' href='data:text/csv;base64,{encoded}'"
                                  " target='_blank'>download the table (CSV)</a>")
@@ -746,18 +823,30 @@ class MachinePanel(widgets.VBox):
         if entry.name in _ENTRY_SELECTS:
             self._inputs.update(_selected_by(entry.name))
             self._refresh_choices()
-        self._recalculate()
+        self._recalculate(first=(entry.name,))
 
     def _ambient_changed(self):
         # A gauge reading stays as typed; its absolute value follows the new ambient pressure.
         sysm = self.system
+        problem = self._limit_problem("ambient-pressure")
+        if problem:
+            self._fail(InputError(problem))
+            return
+        kept = {}
         for name, (key, _label, kind) in ENTRIES.items():
             ent = self.entries[name]
             if kind == "pressure" and case_files.UNIT_SYSTEMS[sysm].gauge:
-                self._inputs[key] = float(to_si(sysm, ent.value, kind, self.ambient))
+                kept[name] = ent.display_value
+                self._inputs[key] = float(to_si(sysm, kept[name], kind, self.ambient))
             ent.set_system(sysm, self.ambient)
         self._refresh_widgets()
-        self._recalculate()
+        self._quiet = True
+        try:
+            for name, number in kept.items():
+                self.entries[name].set_display(number, notify=False)
+        finally:
+            self._quiet = False
+        self._recalculate(first=("ambient-pressure",))
 
     def _choice_changed(self, change):
         for name, w in self.choices.items():
@@ -778,6 +867,10 @@ class MachinePanel(widgets.VBox):
         self._refresh_choices()
         self._show_composition_sum()
         self._recalculate()
+
+    def _tab_changed(self, change):
+        if change["new"] == _CHART_TAB:
+            self.show_charts()
 
     def _units_changed(self, change):
         self._set_unit_system(change["new"])
@@ -835,8 +928,11 @@ class MachinePanel(widgets.VBox):
                                 "target='_blank'>download the case (JSON)</a>")
 
     # ------------------------------------------------------------------ internals
-    def _recalculate(self) -> bool:
+    def _recalculate(self, first=()) -> bool:
         try:
+            problem = self._check_entries(first)
+            if problem:
+                raise InputError(problem)
             result = compute(self._inputs, self._fluids)
             for _name, (_label, _kind, get) in RESULTS.items():
                 get(result)  # evaluate every shown number now, so a failure marks stale
@@ -846,15 +942,61 @@ class MachinePanel(widgets.VBox):
         self.result = result
         self.stale = False
         self._show_results()
-        try:
-            self._points = charts.process_points(result)
-        except Exception as exc:  # noqa: BLE001 - the numbers are good; the chart is not
-            self._points = None
-            self._set_message("the process chart could not be drawn: " + describe_error(exc))
-            return True
-        self._draw_charts()
         self._set_message(self._ok_text(result))
+        self._draw_charts()
         return True
+
+    # ------------------------------------------------------------------ entry limits
+    def _check_entries(self, first=()) -> str | None:
+        """Message of the first entry in use beyond its physical limit, or None.
+
+        Entries named in ``first`` (just typed) are checked first, then the others in the
+        order of :data:`ENTRIES`.  Only entries the current choices use are checked.
+        """
+        used = entries_in_use(self._inputs) | (set(ENTRIES) - _OPTIONAL)
+        order = [n for n in first if n in PHYSICAL_LIMITS]
+        order += [n for n in ENTRIES if n in PHYSICAL_LIMITS and n not in order]
+        for name in order:
+            if name in used:
+                problem = self._limit_problem(name)
+                if problem:
+                    return problem
+        return None
+
+    def _limit_problem(self, name: str, value: float | None = None) -> str | None:
+        """Message when entry ``name`` (or ``value`` typed into it, display units) is beyond
+        its physical limit, quoting the entry's label, the number and the unit typed."""
+        limit = PHYSICAL_LIMITS.get(name)
+        if limit is None:
+            return None
+        entry = self.entries[name]
+        _key, label, kind = ENTRIES[name]
+        system, ambient = entry.system, entry.ambient_pressure
+        if value is None:  # compare the exact value, quote the number the entry shows
+            value, shown = entry.display_value, entry.value
+        else:
+            shown = value
+        unit = quoted_unit(system, kind)
+        quoted = f"{label[:1].upper()}{label[1:]} {format_typed(shown)} {unit}"
+        if limit == "efficiency":
+            if 0.0 < value <= 100.0:
+                return None
+            return f"{quoted} is out of range: an efficiency is above 0 % and at most 100 %"
+        zero = scale_zero(system, kind, ambient) if limit == "absolute" else 0.0
+        if value > zero:
+            return None
+        if kind == "temperature":
+            return (f"{quoted} is below absolute zero: a temperature must be above "
+                    f"{format_number(zero)} {unit}")
+        if kind == "pressure" and zero != 0.0:  # gauge scale
+            abs_unit = quoted_unit(system, "absolute_pressure")
+            return (f"{quoted} is below vacuum: it is {format_number(value - zero)} {abs_unit} "
+                    f"absolute (ambient pressure {format_number(-zero)} {abs_unit}); a gauge "
+                    f"pressure must be above {format_number(zero)} {unit}")
+        if kind in ("pressure", "absolute_pressure"):
+            return (f"{quoted} is not positive: an absolute pressure must be above "
+                    f"0 {unit}")
+        return f"{quoted} is not positive: a flow must be above 0 {unit}"
 
     def _ok_text(self, result) -> str:
         mode = self._inputs["outlet_fixed_by"]
@@ -877,6 +1019,7 @@ class MachinePanel(widgets.VBox):
     def _mark_stale(self):
         for field in self.results.values():
             field.set_stale(self.stale)
+        self._show_states()
         self.stale_note.value = ("<i style='color:#8a8a8a'>stale: these results belong to "
                                  "earlier inputs</i>" if self.stale else "")
 
@@ -902,15 +1045,51 @@ class MachinePanel(widgets.VBox):
                 field.show(text if unit == "-" else f"{text} {unit}")
         self._mark_stale()
 
-    def _draw_charts(self):
-        if self._points is None:
+    def _show_states(self):
+        """Table of the inlet, outlet and isentropic outlet states in display units."""
+        r = self.result
+        if r is None:
+            self.states_html.value = ""
             return
+        columns = (("pressure", "pressure", lambda st: st.P),
+                   ("temperature", "temperature", lambda st: st.T),
+                   ("specific enthalpy", "specific_enthalpy", lambda st: st.h),
+                   ("specific entropy", "specific_entropy", lambda st: st.s),
+                   ("density", "density", lambda st: st.rho))
+        head = "".join(f"<th style='padding:2px 10px'>{html.escape(name)} "
+                       f"[{html.escape(unit_label(self.system, kind))}]</th>"
+                       for name, kind, _get in columns)
+        rows = []
+        for title, st in (("inlet", r.inlet), ("outlet", r.outlet),
+                          ("isentropic outlet (same outlet pressure)", r.isentropic_outlet)):
+            cells = "".join(
+                f"<td style='padding:2px 10px;text-align:right'>"
+                f"{format_number(float(from_si(self.system, get(st), kind, self.ambient)))}"
+                "</td>" for _name, kind, get in columns)
+            phase = (f"quality {st.x:.4f}" if st.x is not None else st.phase or "one phase")
+            rows.append(f"<tr><td style='padding:2px 10px'>{html.escape(title)}</td>{cells}"
+                        f"<td style='padding:2px 10px'>{html.escape(phase)}</td></tr>")
+        colour = "#8a8a8a" if self.stale else "#222222"
+        self.states_html.value = (
+            f"<table style='border-collapse:collapse;color:{colour}'>"
+            f"<tr><th style='padding:2px 10px'>state</th>{head}"
+            f"<th style='padding:2px 10px'>phase</th></tr>{''.join(rows)}</table>")
+
+    def _draw_charts(self) -> bool:
+        """Draw the last good result into the process charts, if they are built."""
+        if self.figure is None or self.result is None:
+            return False
         try:
-            charts.update_process_figures(self.figures, self._points, self.system)
-            for view, fig in zip(self.figure_views, self.figures):
-                charts.refresh_view(view, fig)
+            if self._points_of is not self.result:
+                self._points = None
+                self._points = charts.process_points(self.result)
+                self._points_of = self.result
+            charts.update_process_figure(self.figure, self._points, self.system)
+            charts.refresh_view(self.chart_box.children[0], self.figure)
         except Exception as exc:  # noqa: BLE001 - the numbers stay good; the chart is not
             self._set_message("the process chart could not be drawn: " + describe_error(exc))
+            return False
+        return True
 
     def _show_composition_sum(self):
         try:
