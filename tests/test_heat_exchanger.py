@@ -1,5 +1,7 @@
 """Heat exchangers and coolers: duty balance, pressure drops, second-law terminal checks."""
 
+import math
+
 import pytest
 from iapws import IAPWS97
 
@@ -39,8 +41,6 @@ def test_heat_loss_comes_out_of_the_hot_stream():
 
 def test_log_mean_temperature_difference_closed_form():
     # LMTD = (dT1 - dT2) / ln(dT1/dT2) for counterflow (closed form).
-    import math
-
     hot, cold = WATER.state_PT(5e5, 363.15), WATER.state_PT(4e5, 293.15)
     r = heat_exchanger(hot, 5.0, cold, 8.0, hot_outlet_temperature=323.15)
     d1, d2 = 363.15 - r.cold_outlet.T, 323.15 - 293.15
@@ -81,3 +81,27 @@ def test_exchanger_specification_errors():
         heat_exchanger(hot, 5.0, cold, 0.5, hot_outlet_temperature=300.0)
     with pytest.raises(InputError, match="hot side pressure drop"):
         heat_exchanger(hot, 5.0, cold, 8.0, duty=1e5, hot_pressure_drop=6e5)
+
+
+def test_balanced_counterflow_perfect_gas():
+    # Balanced counterflow (equal m cp on both sides) keeps the temperature difference the
+    # same along the exchanger, so LMTD = dT (closed-form limit), UA = duty / dT, and
+    # S_gen = m cp [ln(T_h2/T_h1) + ln(T_c2/T_c1)] (perfect gas at one pressure).  Argon:
+    # cp = 5/2 R, R = 8.314462618 J/(mol K) (CODATA 2018) over 39.948 g/mol (IUPAC); a
+    # perfect gas at 1 bar and 300-500 K to about 0.1 % (from memory).
+    cp = 2.5 * 8.314462618 / 0.039948
+    argon = Fluid("Argon")
+    hot, cold = argon.state_PT(1e5, 500.0), argon.state_PT(1e5, 300.0)
+    result = heat_exchanger(hot, 1.0, cold, 1.0, hot_outlet_temperature=400.0)
+    assert result.cold_outlet.T == pytest.approx(400.0, rel=1e-3)
+    assert result.duty == pytest.approx(cp * 100.0, rel=1e-3)
+    assert result.log_mean_temperature_difference == pytest.approx(100.0, rel=1e-3)
+    assert result.conductance == pytest.approx(cp, rel=2e-3)
+    s_gen = cp * (math.log(400.0 / 500.0) + math.log(400.0 / 300.0))
+    assert result.entropy_generation == pytest.approx(s_gen, rel=5e-3)
+
+
+def test_negative_heat_loss_is_refused():
+    hot, cold = WATER.state_PT(5e5, 363.15), WATER.state_PT(4e5, 293.15)
+    with pytest.raises(InputError, match="heat exchanger heat loss -5 W must not be negative"):
+        heat_exchanger(hot, 5.0, cold, 8.0, duty=1e5, heat_loss=-5.0)

@@ -93,3 +93,24 @@ def test_splitter_values_that_are_not_a_list_are_refused():
         splitter(inlet, 10.0, branch_mass_flows=3.0)
     with pytest.raises(InputError, match="mixer streams must be a list"):
         mixer(5.0)
+
+
+#: Argon as a perfect gas: R = 8.314462618 J/(mol K) (CODATA 2018) over 39.948 g/mol
+#: (IUPAC), cp = 5/2 R (monatomic, kinetic theory).  At 1 bar and 300-500 K argon is a
+#: perfect gas to about 0.1 % (from memory).
+CP_ARGON = 2.5 * 8.314462618 / 0.039948
+
+
+@pytest.mark.parametrize("heat_loss", [0.0, 2 * CP_ARGON * 20.0])
+def test_perfect_gas_mixing_temperature_and_entropy(heat_loss):
+    # Constant cp: T_out = (sum m_i T_i - Q/cp) / m_out, and at one pressure
+    # S_gen = sum m_i cp ln(T_out / T_i) + Q / T_out, the heat leaving at the outlet
+    # temperature as MixerResult documents (closed forms).  A heat loss of 2 cp 20 W
+    # lowers T_out by 20 K.
+    argon = Fluid("Argon")
+    streams = [(argon.state_PT(1e5, 300.0), 1.0), (argon.state_PT(1e5, 500.0), 1.0)]
+    result = mixer(streams, heat_loss=heat_loss)
+    t_out = 400.0 - heat_loss / (2 * CP_ARGON)
+    s_gen = CP_ARGON * (math.log(t_out / 300.0) + math.log(t_out / 500.0)) + heat_loss / t_out
+    assert result.outlet.T == pytest.approx(t_out, rel=2e-4)
+    assert result.entropy_generation == pytest.approx(s_gen, rel=5e-3)

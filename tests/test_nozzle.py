@@ -88,3 +88,45 @@ def test_bad_nozzle_inputs():
         nozzle(inlet, 1e5, isentropic_efficiency=1.2)
     with pytest.raises(InputError, match="diffuser outlet velocity"):
         diffuser(inlet, 100.0, velocity_out=150.0)
+
+
+#: Specific gas constant of argon [J/(kg K)]: molar gas constant 8.314462618 J/(mol K)
+#: (CODATA 2018) over the molar mass 39.948 g/mol (IUPAC standard atomic weight).
+R_ARGON = 8.314462618 / 0.039948
+#: Monatomic perfect gas: cp = 5/2 R, k = 5/3 (kinetic theory, closed form).
+CP_ARGON, K_ARGON = 2.5 * R_ARGON, 5.0 / 3.0
+ARGON = Fluid("Argon")
+
+
+def test_nozzle_with_inlet_velocity_perfect_gas():
+    # Isentropic expansion of a perfect gas: T2s = T1 (P2/P1)^((k-1)/k) and, with the
+    # stagnation enthalpy conserved, V2^2 = V1^2 + 2 cp (T1 - T2s) (closed forms).  With the
+    # nozzle efficiency eta = (h01 - h2)/(h01 - h2s) of the module notes, V2^2 is eta times
+    # that.  Argon at 1 bar and 300 K is a perfect gas to about 0.1 % (Z near 0.9994, from
+    # memory), so 1e-3.
+    inlet = ARGON.state_PT(1e5, 300.0)
+    t2s = 300.0 * 0.6 ** ((K_ARGON - 1) / K_ARGON)
+    ideal = math.sqrt(100.0 ** 2 + 2 * CP_ARGON * (300.0 - t2s))
+    result = nozzle(inlet, 0.6e5, velocity_in=100.0)
+    assert result.velocity_out == pytest.approx(ideal, rel=1e-3)
+    assert result.isentropic_outlet.T == pytest.approx(t2s, rel=1e-3)
+    lossy = nozzle(inlet, 0.6e5, velocity_in=Q_(100.0, "m/s"), isentropic_efficiency=0.9)
+    assert lossy.velocity_out == pytest.approx(math.sqrt(0.9) * ideal, rel=1e-3)
+    with pytest.raises(InputError, match="nozzle inlet velocity -1 m/s must not be negative"):
+        nozzle(inlet, 0.6e5, velocity_in=-1.0)
+
+
+def test_diffuser_to_a_finite_velocity_perfect_gas():
+    # h2 = h1 + (V1^2 - V2^2)/2, so T2 = T1 + (V1^2 - V2^2)/(2 cp); the efficiency
+    # eta = (h2s - h1)/(h2 - h1) gives T2s = T1 + eta (T2 - T1) and P2 = P1 (T2s/T1)^(k/(k-1))
+    # (perfect-gas closed forms, argon as above).  Continuity: A2/A1 = rho1 V1 / (rho2 V2).
+    inlet = ARGON.state_PT(1e5, 300.0)
+    t2 = 300.0 + (250.0 ** 2 - 50.0 ** 2) / (2 * CP_ARGON)
+    t2s = 300.0 + 0.85 * (t2 - 300.0)
+    result = diffuser(inlet, 250.0, velocity_out=50.0, isentropic_efficiency=0.85)
+    p2 = 1e5 * (t2s / 300.0) ** (K_ARGON / (K_ARGON - 1))
+    assert result.outlet.T == pytest.approx(t2, rel=1e-4)
+    assert result.outlet.P == pytest.approx(p2, rel=1e-3)
+    # Perfect-gas densities rho = P / (R T) at both ends.
+    rho1, rho2 = 1e5 / (R_ARGON * 300.0), p2 / (R_ARGON * t2)
+    assert result.area_ratio == pytest.approx(rho1 * 250.0 / (rho2 * 50.0), rel=2e-3)

@@ -100,3 +100,26 @@ def test_bad_pipe_inputs():
         pipe_segment(inlet, 1.0, 0.1, elevation_change=50.0)
     with pytest.raises(InputError, match="pipe diameter"):
         pipe_segment(inlet, 1.0, -0.1)
+
+
+def test_minor_losses_and_npsh_from_flow():
+    # Fittings only (no length): dP = K rho V^2 / 2 (loss-coefficient definition, common
+    # practice), V = m / (rho pi D^2 / 4) (continuity); water density at 20 degC and 3 bar
+    # from IAPWS-IF97 via iapws.
+    inlet = WATER.state_PT(3e5, 293.15)
+    rho = IAPWS97(P=0.3, T=293.15).rho
+    v = 10.0 / (rho * math.pi * 0.1 ** 2 / 4)
+    result = pipe_segment(inlet, 10.0, 0.1, minor_loss_coefficient=2.0)
+    assert result.pressure_drop == pytest.approx(2.0 * rho * v ** 2 / 2, rel=1e-5)
+    assert result.head_loss == pytest.approx(2.0 * v ** 2 / (2 * 9.80665), rel=1e-5)
+    # NPSHa with the velocity from the mass flow and the flange diameter (same continuity);
+    # vapour pressure at 20 degC from IAPWS-IF97 via iapws; g = 9.80665 m/s^2 (3rd CGPM).
+    pv = IAPWS97(T=293.15, x=0).P * 1e6
+    suction = npsh_available(inlet, mass_flow=Q_(36.0, "t/h"), diameter=0.1)
+    assert suction.velocity == pytest.approx(v, rel=1e-5)
+    expected = (3e5 - pv) / (rho * 9.80665) + v ** 2 / (2 * 9.80665)
+    assert suction.npsh_available == pytest.approx(expected, rel=1e-5)
+    with pytest.raises(InputError, match="minor loss coefficient -1 must not be negative"):
+        pipe_segment(inlet, 10.0, 0.1, minor_loss_coefficient=-1.0)
+    with pytest.raises(InputError, match="pipe outlet diameter 0 m must be positive"):
+        pipe_segment(inlet, 10.0, 0.1, outlet_diameter=0.0)

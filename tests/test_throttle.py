@@ -65,3 +65,18 @@ def test_outlet_pressure_above_inlet_is_refused():
         throttle(inlet, 3e5)
     with pytest.raises(WorkbenchError, match="throttle mass flow"):
         throttle(inlet, 1e5, mass_flow=-1.0)
+
+
+def test_perfect_gas_entropy_generation():
+    # Throttling a perfect gas keeps T (h depends on T only) and generates
+    # m R ln(P1/P2) of entropy (closed form).  Argon: R = 8.314462618 J/(mol K) (CODATA
+    # 2018) over 39.948 g/mol (IUPAC); at 1 bar and 300 K it is a perfect gas to about
+    # 0.1 % (from memory), and its small Joule-Thomson cooling (a few tenths of a kelvin per
+    # bar, from memory) moves the entropy by well under that.
+    r_argon = 8.314462618 / 0.039948
+    inlet = Fluid("Argon").state_PT(1e5, 300.0)
+    result = throttle(inlet, 0.5e5, mass_flow=2.0)
+    expected = 2.0 * r_argon * math.log(2.0)
+    assert result.to_dict()["entropy_generation_W_per_K"] == pytest.approx(expected, rel=2e-3)
+    assert abs(result.temperature_change) < 0.5
+    assert result.pressure_drop == pytest.approx(0.5e5, rel=1e-12)
