@@ -4,12 +4,18 @@ Starts ``workbench serve`` on a free port (fixture ``served_dashboards`` in conf
 opens the compressor dashboard, changes the measured outlet temperature and checks that
 the efficiency follows, types an impossible inlet pressure and checks that the message
 names the pressure while the last good result stays shown; then opens the turbine
-dashboard and reads its power.  Skipped without Chromium unless WORKBENCH_REQUIRE_BROWSER=1.
+dashboard and reads its power; then opens the test-data dashboard, checks the demo file's
+table colours and the plotly chart, and types a negative steady-state tolerance.  Skipped
+without Chromium unless WORKBENCH_REQUIRE_BROWSER=1.  With WORKBENCH_UPDATE_SCREENSHOTS=1 the
+test-data screenshot is also written to docs/screenshots/test-data.png.
 """
 
 from __future__ import annotations
 
+import os
+import pathlib
 import re
+import shutil
 
 import pytest
 
@@ -18,6 +24,9 @@ pytestmark = pytest.mark.browser
 #: Bounded waits [ms]: a first render includes a kernel start when no warm one is left.
 FIRST_RESULT_TIMEOUT = 90_000
 UPDATE_TIMEOUT = 30_000
+
+#: Screenshots kept in the repository (written only with WORKBENCH_UPDATE_SCREENSHOTS=1).
+DOCS_SCREENSHOTS = pathlib.Path(__file__).resolve().parents[1] / "docs" / "screenshots"
 
 _NUMBER = re.compile(r"[-+]?\d+(?:\.\d+)?(?:[eE][-+]?\d+)?")
 
@@ -108,3 +117,53 @@ def test_turbine_dashboard_shows_power(served_dashboards, page, screenshots):
     # a turbine delivers power: a positive magnitude (project sign convention, DESIGN.md)
     assert number_in(power) > 0
     page.screenshot(path=str(screenshots / "turbine.png"), full_page=True)
+
+
+def css_of(page, selector: str, prop: str) -> str:
+    """Computed CSS property of the first element matching ``selector``."""
+    return page.eval_on_selector(selector, f"e => getComputedStyle(e).{prop}")
+
+
+def test_test_data_dashboard_shows_table_chart_and_reports_a_bad_tolerance(
+        served_dashboards, page, screenshots):
+    page.goto(served_dashboards + "/voila/render/test-data.ipynb",
+              timeout=FIRST_RESULT_TIMEOUT)
+    summary = wait_for_number(page, ".wb-result-summary")
+    # the invented demo file has 300 rows, 6 of them deliberately bad (tests/data generator)
+    assert "300 rows" in summary and "Steady:" in summary
+    assert page.locator(".wb-result-table tr.wb-row-flagged").count() == 6
+    # status colours: flagged rows shaded, unsteady cells in their own colour
+    flagged = css_of(page, ".wb-result-table tr.wb-row-flagged", "backgroundColor")
+    unsteady = css_of(page, ".wb-result-table td.wb-steady-no", "backgroundColor")
+    assert flagged == "rgb(251, 227, 198)"
+    assert unsteady == "rgb(221, 229, 239)"
+    assert css_of(page, ".wb-result-table tr.wb-row-ok", "backgroundColor") != flagged
+    # the chart is plotly (an svg with scatter traces holding points), not a picture
+    page.wait_for_function(
+        "() => document.querySelectorAll('.wb-result-figure .main-svg .scatterlayer .trace')"
+        ".length >= 8 && document.querySelectorAll('.wb-result-figure .point').length > 100",
+        timeout=FIRST_RESULT_TIMEOUT)
+    assert page.locator(".wb-result-figure .main-svg").count() >= 1
+    assert page.locator(".wb-result-figure .yerror").count() > 0  # the U95 bars
+    assert page.locator(".jp-InputArea-editor, .CodeMirror, .cm-editor").count() == 0
+    # the dashboard scrolls inside its own panel: make the window as tall as its content so
+    # the screenshot shows the whole page
+    height = page.evaluate("() => Math.max(...[...document.querySelectorAll("
+                           "'.lm-BoxPanel-child')].map(e => e.scrollHeight), 1000)")
+    page.set_viewport_size({"width": 1400, "height": min(int(height) + 20, 4000)})
+    page.wait_for_timeout(500)
+    shot = screenshots / "test-data.png"
+    page.screenshot(path=str(shot), full_page=True)
+    if os.environ.get("WORKBENCH_UPDATE_SCREENSHOTS") == "1":
+        shutil.copyfile(shot, DOCS_SCREENSHOTS / "test-data.png")
+
+    commit_entry(page, "tolerance-inlet-pressure", "-0.5")
+    page.wait_for_function(
+        "() => { const e = document.querySelector('.wb-message');"
+        " return e && /tolerance/i.test(e.innerText); }", timeout=UPDATE_TIMEOUT)
+    message = text_of(page, ".wb-message")
+    assert "inlet pressure" in message and "-0.5" in message
+    # the last good table stays, its summary marked stale
+    assert page.locator(".wb-result-table tr.wb-row-flagged").count() == 6
+    assert page.locator(".wb-result-summary .wb-stale").count() == 1
+    page.screenshot(path=str(screenshots / "test-data-bad-input.png"), full_page=True)

@@ -199,6 +199,12 @@ def test_steady_flags_in_table_chart_and_export_are_the_library_flags(demo):
     # window the speed strays 2 x 45 = 90 rpm from its mean (by hand), beyond the 51 rpm
     # tolerance (0.5 % of the median speed), so the ramp is unsteady
     assert not expected.loc[125:140].any()
+    # the table says why: the first rows have no full window yet; the invented row 244 has
+    # its discharge pressure at 15.2 bar(g), far below its neighbours near 39 bar(g)
+    assert "<td class='wb-num'>0</td><td class='wb-steady-no' style='background:#dde5ef'>" \
+           "no: window not yet full</td>" in demo.table.value
+    assert re.search(r"<td class='wb-num'>244</td><td class='wb-steady-no'[^>]*>no: [^<]*"
+                     r"outlet p", demo.table.value)
     assert demo.tolerance["speed"].value == 51.0
 
 

@@ -190,7 +190,7 @@ def _nice(value: float) -> float:
     return float(f"{value:.2g}")
 
 
-def make_field_figure(width: int = 1100, height: int = 420):
+def make_field_figure(width: int = 1300, height: int = 440):
     """One FigureWidget with the efficiency and shaft-power charts as two subplots.
 
     Each subplot holds the traces of :data:`FIELD_TRACES`, in that order: trace ``i`` of the
@@ -312,13 +312,14 @@ class FieldDataPanel(widgets.VBox):
         self._tolerance_box: dict[str, widgets.HBox] = {}
         rows = [widgets.HBox([
             widgets.HTML("<span class='wb-head'>reading and file column</span>",
-                         layout=widgets.Layout(width="520px")),
+                         layout=widgets.Layout(width="640px")),
             widgets.HTML("<span class='wb-head'>unit</span>", layout=widgets.Layout(
                 width="110px")),
             widgets.HTML("<span class='wb-head'>steady tolerance ±</span>")])]
         for name, (kind, _) in READING_KINDS.items():
             hook = name.replace("_", "-")
-            col = self._dropdown(f"map-{hook}", _LABELS[name], [NONE], NONE)
+            col = self._dropdown(f"map-{hook}", _LABELS[name], [NONE], NONE, "640px",
+                                 "300px")
             choices = UNIT_CHOICES["volume_flow" if kind == "volume_flow" else kind]
             unit = widgets.Dropdown(options=choices, value=choices[0],
                                     layout=widgets.Layout(width="110px"))
@@ -377,31 +378,36 @@ class FieldDataPanel(widgets.VBox):
         self.figure_view = figure_view(self.figure)
         self.figure_view.add_class("wb-result-figure")
 
-        left = widgets.VBox([
-            _heading("Machine and fluid"), self.machine, self.backend, self.ambient,
-            self.mech,
-            _heading("Instrument systematic uncertainty (1 sigma)"),
-            self.u_pressure, self.u_temperature, self.u_flow, self.u_power,
-            _heading("Design point (0 where not given)"),
-            self.d_eta, self.d_power, self.d_flow, self.d_speed],
-            layout=widgets.Layout(width="360px", margin="0 24px 0 0"))
-        right = widgets.VBox([
-            _heading("Columns, units and steady-state tolerances"), *rows,
-            self.steady_window,
-            widgets.HTML("<small style='color:#555'>A row is steady when no reading strays "
-                         "from its mean over the window ending at that row by more than its "
-                         "tolerance. Defaults: ±1 % of the reading for pressures, ±2 % for "
-                         "flow and power, ±0.5 % for speed, ±1 K for temperatures; use the "
-                         "limits of the test code and contract in force.</small>",
-                         layout=widgets.Layout(width="780px"))])
-        setup = widgets.VBox([
-            widgets.HBox([self.upload], layout=widgets.Layout(margin="0 0 4px 0")),
-            self.fluid, widgets.HBox([left, right], layout=widgets.Layout(
-                flex_flow="row wrap")), self.run])
+        self.title = widgets.HTML(_title(""))
+        header = widgets.HBox([self.title, self.upload], layout=widgets.Layout(
+            justify_content="space-between", align_items="center", width="100%"))
+        column = widgets.Layout(width="350px", margin="0 16px 0 0")
+        machine_box = widgets.VBox([
+            self.fluid, widgets.HBox([
+                widgets.VBox([_heading("Machine"), self.machine, self.backend, self.ambient,
+                              self.mech], layout=column),
+                widgets.VBox([_heading("Instrument systematic uncertainty (1 sigma)"),
+                              self.u_pressure, self.u_temperature, self.u_flow,
+                              self.u_power], layout=column),
+                widgets.VBox([_heading("Design point (0 where not given)"),
+                              self.d_eta, self.d_power, self.d_flow, self.d_speed],
+                             layout=column)], layout=widgets.Layout(flex_flow="row wrap"))])
+        columns_box = widgets.VBox([
+            *rows,
+            widgets.HBox([self.steady_window, widgets.HTML(
+                "<div class='wb-note'>A row is steady when no reading strays from its mean "
+                "over the window ending at that row by more than its tolerance. Defaults: "
+                "±1 % of the reading for pressures, ±2 % for flow and power, ±0.5 % for "
+                "speed, ±1 K for temperatures; use the limits of the test code and contract "
+                "in force.</div>", layout=widgets.Layout(width="620px", margin="0 0 0 16px"))],
+                layout=widgets.Layout(align_items="center", margin="6px 0 0 0"))])
+        self.setup = widgets.Tab([columns_box, machine_box])
+        self.setup.set_title(0, "Columns")
+        self.setup.set_title(1, "Machine, design")
+        self.setup.add_class("wb-tabs")
         super().__init__([
-            widgets.HTML(f"<style>{_CSS}</style><h3 style='margin:4px 0'>Field-test readings"
-                         "</h3>"), self.caution, setup, self.message,
-            self.summary, self.figure_view, self.table, self.export],
+            widgets.HTML(f"<style>{_CSS}</style>"), header, self.caution, self.setup,
+            self.run, self.message, self.summary, self.figure_view, self.table, self.export],
             layout=widgets.Layout(width="100%", max_width="1400px"))
         self.add_class("wb-panel-test-data")
         if content is not None:
@@ -411,9 +417,9 @@ class FieldDataPanel(widgets.VBox):
 
     # ------------------------------------------------------------------ construction helpers
     @staticmethod
-    def _dropdown(name, label, options, value, width="520px"):
+    def _dropdown(name, label, options, value, width="520px", label_width="170px"):
         w = widgets.Dropdown(options=list(options), value=value, description=label,
-                             style={"description_width": "170px"},
+                             style={"description_width": label_width},
                              layout=widgets.Layout(width=width))
         w.add_class(f"wb-input-{name}")
         return w
@@ -444,6 +450,7 @@ class FieldDataPanel(widgets.VBox):
             self._fail(str(exc))
             return
         self.raw, self.file_name = raw, file_name
+        self.title.value = _title(file_name)
         self._tolerance_edited.clear()
         options = [NONE, *raw.columns]
         for _name, dropdown in self.map_column.items():
@@ -758,23 +765,24 @@ class FieldDataPanel(widgets.VBox):
         flags = self.steady
         if bool(flags.at[index, "steady"]):
             return True, "yes"
-        _window, tolerances = self.steady_used
-        strayed, unknown = [], False
+        window, tolerances = self.steady_used
+        if flags.index.get_loc(index) < window - 1:
+            return False, "no: window not yet full"
+        strayed, missing = [], False
         for name, tol in tolerances.items():
             dev = flags.at[index, f"{name}_max_deviation"]
             if not math.isfinite(dev):
-                unknown = True
+                missing = True
             elif dev > tol and _SHORT[name] not in strayed:
                 strayed.append(_SHORT[name])
         if strayed:
             return False, "no: " + ", ".join(strayed)
-        return False, "no: window incomplete" if unknown else "no"
+        return False, "no: reading missing in window" if missing else "no"
 
     def _table_html(self) -> str:
         r = self.results
         flagged = r[r["status"] != "ok"]
         shown = pd.concat([flagged, r[r["status"] == "ok"].head(max(0, TABLE_ROWS - len(flagged)))])
-        shown = shown.sort_index()
         cols = [("status", "status", None), ("message", "message", None),
                 ("isentropic_efficiency", "eff. %", lambda v: f"{100 * v:.2f}"),
                 ("shaft_power", "shaft kW", lambda v: f"{v / 1e3:.1f}"),
@@ -799,15 +807,16 @@ class FieldDataPanel(widgets.VBox):
                 v = row.get(key)
                 if fmt is None:
                     text = "" if v is None else str(v)
-                    cells.append(f"<td>{html.escape(text)}</td>")
+                    css_cell = " class='wb-msg'" if key == "message" else ""
+                    cells.append(f"<td{css_cell}>{html.escape(text)}</td>")
                 else:
                     text = fmt(v) if isinstance(v, float) and math.isfinite(v) else "–"
                     cells.append(f"<td class='wb-num'>{html.escape(text)}</td>")
             body.append(f"<tr class='{css}'{style}><td class='wb-num'>{html.escape(str(index))}"
                         f"</td>{steady_cell}{''.join(cells)}</tr>")
-        note = (f"<p class='wb-note'>Showing {len(shown)} of {len(r)} rows (every flagged row "
-                "is kept); the CSV has every row. Flagged rows are shaded orange, cells of "
-                "unsteady rows blue-grey.</p>")
+        note = (f"<p class='wb-note'>Showing {len(shown)} of {len(r)} rows: every flagged row "
+                "(shaded orange) first, then the first rows that were computed; the CSV has "
+                "every row. Cells of unsteady rows are blue-grey.</p>")
         return (note + "<table class='wb-table'><thead><tr><th>row</th><th>steady</th>"
                 f"{head}</tr></thead><tbody>{''.join(body)}</tbody></table>")
 
@@ -815,21 +824,32 @@ class FieldDataPanel(widgets.VBox):
 #: Page styles of the panel (scoped to its own classes).
 _CSS = """
 .wb-panel-test-data { font-size: 13px; color: #222; }
+.wb-panel-test-data .widget-html-content { line-height: 1.4; }
 .wb-panel-test-data .wb-section { font-weight: 600; margin: 10px 0 4px 0; padding-bottom: 2px;
   border-bottom: 1px solid #d4d8dd; color: #2b3a4a; }
 .wb-panel-test-data .wb-head { font-size: 11px; color: #666; text-transform: uppercase;
   letter-spacing: 0.04em; }
 .wb-panel-test-data .wb-summary { border-left: 3px solid #2e6b8a; background: #f4f7f9;
   padding: 6px 10px; margin: 6px 0; line-height: 1.5; }
-.wb-panel-test-data .wb-note { color: #555; margin: 4px 0; }
+.wb-panel-test-data .wb-note { color: #555; margin: 4px 0; font-size: 12px; }
+.wb-panel-test-data .wb-file { font-weight: 400; color: #555; font-size: 14px;
+  margin-left: 8px; }
 .wb-panel-test-data .wb-table { border-collapse: collapse; font-size: 12px; }
 .wb-panel-test-data .wb-table th { position: sticky; top: 0; background: #eef1f4;
   text-align: left; font-weight: 600; border-bottom: 1px solid #c8ced5; }
-.wb-panel-test-data .wb-table td, .wb-panel-test-data .wb-table th { padding: 2px 8px; }
+.wb-panel-test-data .wb-table td, .wb-panel-test-data .wb-table th { padding: 2px 8px;
+  white-space: nowrap; vertical-align: top; }
+.wb-panel-test-data .wb-table td.wb-msg { white-space: normal; min-width: 260px;
+  max-width: 520px; }
 .wb-panel-test-data .wb-table tbody tr { border-bottom: 1px solid #eceff2; }
 .wb-panel-test-data .wb-table td.wb-num { text-align: right;
   font-variant-numeric: tabular-nums; }
 """
+
+
+def _title(file_name: str) -> str:
+    name = (f" <span class='wb-file'>{html.escape(file_name)}</span>" if file_name else "")
+    return f"<h3 style='margin:4px 0'>Readings file{name}</h3>"
 
 
 def _heading(text: str) -> widgets.HTML:
