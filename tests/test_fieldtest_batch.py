@@ -207,3 +207,89 @@ def test_a_bad_cell_in_an_unused_column_does_not_stop_the_row():
     assert list(out["status"]) == ["ok", "ok", "missing reading"]
     assert out.loc[0, "power"] == out.loc[1, "power"]
     assert "outlet temperature" in out.loc[2, "message"]
+
+
+def _single_point(machine, fluid, row, mode):
+    """The single-point core API for one row: (result, None) or (None, error text)."""
+    try:
+        inlet = fluid.state_PT(float(row.inlet_pressure), float(row.inlet_temperature))
+        if mode == "outlet":
+            outlet = fluid.state_PT(float(row.outlet_pressure), float(row.outlet_temperature))
+            return wb.energy_balance(machine, inlet, outlet, mass_flow=row.mass_flow), None
+        return wb.energy_balance(machine, inlet, P_out=float(row.outlet_pressure),
+                                 power=float(row.power), mass_flow=row.mass_flow), None
+    except wb.errors.WorkbenchError as exc:
+        return None, str(exc)
+
+
+@pytest.mark.parametrize("machine, backend, mode", [
+    ("turbine", "IF97", "power"), ("turbine", "HEOS", "power"), ("pump", "IF97", "outlet"),
+    ("compressor", "HEOS", "outlet")])
+def test_whole_array_path_equals_single_point_api(machine, backend, mode, monkeypatch):
+    # Source: the single-point core API (workbench.energy_balance) row by row, for pure fluids,
+    # which the batch evaluates with whole-array flashes.  Bad rows in the mix (reversed
+    # pressure ratio, power beyond the property range, efficiency above 1, an outlet at the
+    # saturation temperature) must carry the core's own message.
+    rng = np.random.default_rng(5)
+    n = 24
+    fluid = wb.Fluid("Water", backend=backend) if machine != "compressor" else wb.Fluid("Air")
+    if machine == "turbine":
+        m = rng.uniform(10, 14, n)
+        frame = pd.DataFrame({
+            "inlet_pressure": rng.uniform(38e5, 42e5, n),
+            "inlet_temperature": rng.uniform(650, 690, n),
+            "outlet_pressure": rng.choice([0.1e5, 5e5, 12e5], n),  # wet and superheated
+            "power": m * rng.uniform(250e3, 700e3, n), "mass_flow": m})
+        frame.loc[3, "outlet_pressure"] = 50e5  # reversed ratio
+        frame.loc[5, "power"] = 1e12  # no state at that enthalpy
+        frame.loc[7, "power"] = 10.0 * 2.0e6  # efficiency above 1 at the 0.1 bar rows
+        frame.loc[7, "outlet_pressure"] = 5e5
+    elif machine == "pump":
+        p1 = rng.uniform(2e5, 4e5, n)
+        frame = pd.DataFrame({
+            "inlet_pressure": p1, "inlet_temperature": rng.uniform(300, 400, n),
+            "outlet_pressure": rng.uniform(80e5, 120e5, n), "mass_flow": rng.uniform(20, 40, n)})
+        frame["outlet_temperature"] = frame["inlet_temperature"] + rng.uniform(0.3, 1.5, n)
+        frame.loc[2, "outlet_temperature"] = frame.loc[2, "inlet_temperature"] - 2.0
+        frame.loc[4, "inlet_temperature"] = 450.0  # steam at the inlet of a pump
+        frame.loc[6, "outlet_pressure"] = 1e5
+    else:
+        frame = air_frame(n).reset_index(drop=True)
+        frame.loc[1, "outlet_temperature"] = frame.loc[1, "inlet_temperature"] + 1.0
+        frame.loc[8, "outlet_pressure"] = 0.5e5
+    from workbench.fieldtest import batch
+
+    calls = []
+
+    def counted(*args, **options):
+        calls.append(1)
+        return wb.energy_balance(*args, **options)
+
+    monkeypatch.setattr(batch, "energy_balance", counted)
+    out = evaluate(frame, machine, fluid, mode=mode,
+                   results=("power", "shaft_power", "isentropic_efficiency", "isentropic_head",
+                            "outlet_temperature", "outlet_quality", "inlet_volume_flow"))
+    assert len(out) == n
+    # only the rows the arrays could not settle went through the single-point API
+    assert 0 < len(calls) == (out["status"] != "ok").sum()
+    statuses = set()
+    for i, row in frame.iterrows():
+        single, error = _single_point(machine, fluid, row, mode)
+        statuses.add(error is None)
+        if error is not None:
+            assert out.loc[i, "status"] != "ok"
+            assert out.loc[i, "message"] == error
+            assert np.isnan(out.loc[i, "power"])
+            continue
+        assert out.loc[i, "status"] == "ok", out.loc[i, "message"]
+        for column, value in (("power", single.power), ("shaft_power", single.shaft_power),
+                              ("isentropic_efficiency", single.isentropic_efficiency),
+                              ("isentropic_head", single.isentropic_head),
+                              ("outlet_temperature", single.outlet.T),
+                              ("inlet_volume_flow", single.inlet_volume_flow)):
+            assert out.loc[i, column] == pytest.approx(value, rel=1e-10), column
+        if single.outlet.x is None:
+            assert np.isnan(out.loc[i, "outlet_quality"])
+        else:
+            assert out.loc[i, "outlet_quality"] == pytest.approx(single.outlet.x, abs=1e-10)
+    assert statuses == {True, False}

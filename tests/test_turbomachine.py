@@ -283,3 +283,13 @@ def test_outlet_and_disagreeing_pressure(air_inlet):
     out = air_inlet.fluid.state(P=8e5, T=380.0)
     with pytest.raises(SpecificationError, match="disagrees"):
         wb.compressor(air_inlet, out, P_out=9e5)
+
+
+def test_no_pressure_change_is_refused():
+    # Common practice: a rating needs a measurable pressure change; a ratio within one part
+    # in a billion of 1 has no meaningful isentropic or polytropic head (found by hypothesis:
+    # the polytropic path divided by a zero enthalpy change).
+    air = wb.Fluid("Air")
+    inlet = air.state(P=1e4, T=749.0)
+    with pytest.raises(wb.errors.InputError, match="no pressure change"):
+        wb.compressor(inlet, air.state(P=1e4 * (1 + 1e-15), T=886.5))

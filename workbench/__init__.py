@@ -28,7 +28,7 @@ from .fieldtest import (  # noqa: E402
     read_readings,
     steady_state_flags,
 )
-from .fluids import Fluid, State, available_fluids, normalise_fractions
+from .fluids import Fluid, State, StateArray, available_fluids, normalise_fractions
 from .machines import (
     MachineResult,
     compressor,
@@ -73,7 +73,7 @@ SAFETY_CAUTION = (
 
 __all__ = [
     "CaseFileError", "Fluid", "InputError", "MachineResult", "PropertyError", "Q_",
-    "ReadingsError", "SAFETY_CAUTION", "SpecificationError", "State", "UNIT_SYSTEMS",
+    "ReadingsError", "SAFETY_CAUTION", "SpecificationError", "State", "StateArray", "UNIT_SYSTEMS",
     "WorkbenchError", "available_fluids", "compressor", "energy_balance", "fan",
     "normalise_fractions", "pump", "turbine", "ureg",
     "cooler", "diffuser", "heat_exchanger", "mixer", "npsh_available", "nozzle", "pipe_segment",

@@ -2,7 +2,10 @@
 
 Every property flash of the workbench happens in this module.  A :class:`Fluid` holds one
 CoolProp ``AbstractState`` (created once, reused for every flash) and produces immutable
-:class:`State` objects in SI units.
+:class:`State` objects in SI units.  For batches, :meth:`Fluid.states_PT`,
+:meth:`Fluid.states_Ph` and :meth:`Fluid.states_Ps` return a :class:`StateArray` (one entry per
+row) through CoolProp's array interface, with the same checks and results as the single-state
+methods; entries those would refuse are marked not valid.
 
 Supported regions
 -----------------
@@ -27,13 +30,17 @@ Thermodynamic Properties of Water and Steam.
 from __future__ import annotations
 
 import math
+import threading
 from dataclasses import dataclass, field
 
 import CoolProp
 import CoolProp.CoolProp as CP
+import numpy as np
 
 from .errors import InputError, PropertyError
 from .units import to_si
+
+_ARRAY_LOCK = threading.Lock()
 
 #: Universal gas constant [J/(mol K)] (CODATA 2018, exact).
 R_UNIVERSAL = 8.314462618
@@ -138,6 +145,61 @@ _PHASE_WORDS = {
     CoolProp.iphase_critical_point: "supercritical",
 }
 
+_PHASE_TABLE = np.array([_PHASE_WORDS.get(code, "") for code in range(16)], dtype=object)
+
+
+@dataclass(frozen=True, eq=False)
+class StateArray:
+    """Many states of one fluid held as arrays, one entry per row (batch evaluation).
+
+    Made by :meth:`Fluid.states_PT`, :meth:`Fluid.states_Ph` and :meth:`Fluid.states_Ps`.
+    Entries the single-state API would refuse (out of range, not found, ambiguous) have
+    ``valid`` False and NaN numbers; call the single-state method for that entry to get the
+    message.  Valid entries equal the single-state results to rounding.
+
+    Attributes
+    ----------
+    fluid : Fluid
+        The fluid of every state.
+    P, T, h, s, rho : numpy.ndarray
+        Pressure [Pa], temperature [K], specific enthalpy [J/kg], specific entropy
+        [J/(kg K)], density [kg/m^3].
+    x : numpy.ndarray
+        Vapour quality [-]; NaN where single-phase.
+    cp : numpy.ndarray
+        Isobaric specific heat [J/(kg K)]; NaN inside the two-phase region.
+    phase : numpy.ndarray
+        Plain phase words as in :class:`State` (object array; ``""`` where not valid).
+    valid : numpy.ndarray
+        Boolean mask of the entries found.
+    """
+
+    fluid: Fluid = field(repr=False)
+    P: np.ndarray
+    T: np.ndarray
+    h: np.ndarray
+    s: np.ndarray
+    rho: np.ndarray
+    x: np.ndarray
+    cp: np.ndarray
+    phase: np.ndarray
+    valid: np.ndarray
+
+    def __len__(self) -> int:
+        return len(self.P)
+
+    def state(self, i: int) -> State:
+        """Entry ``i`` as a :class:`State` (raises PropertyError for an entry not valid)."""
+        if not self.valid[i]:
+            raise PropertyError(f"entry {i} of the state array is not a valid state")
+        x = float(self.x[i])
+        return State(self.fluid, float(self.P[i]), float(self.T[i]), float(self.h[i]),
+                     float(self.s[i]), float(self.rho[i]), None if math.isnan(x) else x,
+                     float(self.cp[i]), str(self.phase[i]))
+
+    def __repr__(self) -> str:
+        return f"StateArray({self.fluid.name}: {int(self.valid.sum())} of {len(self)} valid)"
+
 
 class Fluid:
     """A pure fluid, pseudo-pure fluid or mixture, and the factory of its states.
@@ -200,10 +262,11 @@ class Fluid:
         if backend == "IF97" and (self.is_mixture or names[0] != "Water"):
             raise InputError("the IF97 backend is for water only")
         self.backend = backend
+        # One property-library state object per thread: a state object holds the last flash,
+        # so two threads (a threaded dask scheduler, a web server) must not share one.
+        self._local = threading.local()
         try:
-            self._as = CP.AbstractState(backend, "&".join(names))
-            if self.is_mixture:
-                self._as.set_mole_fractions(list(fractions))
+            self._local.state = self._new_state()
         except Exception:
             raise InputError(
                 f"the property library has no mixture model for {' + '.join(names)}"
@@ -216,7 +279,6 @@ class Fluid:
         if self.is_mixture:
             # Each component's model must be valid too.
             self.T_min = max(self.T_min, max(CP.PropsSI("Tmin", n) for n in names))
-            self._as.specify_phase(CoolProp.iphase_gas)
             self.T_critical = self.P_critical = float("nan")
             self._dew_cache: dict = {}
         else:
@@ -225,8 +287,26 @@ class Fluid:
             self.P_triple = CP.PropsSI("ptriple", names[0]) if backend == "HEOS" else 611.657
             self._sat_cache: dict = {}
         self.name = self._display_name()
-        #: Number of property flashes done by this fluid object (for benchmarks).
+        self._array_name = f"{backend}::{names[0]}"  # array interface (pure fluids)
+        #: Number of property flashes done by this fluid object (for benchmarks); an array
+        #: call counts one per entry and output.
         self.flash_count = 0
+
+    def _new_state(self):
+        state = CP.AbstractState(self.backend, "&".join(self.components))
+        if self.is_mixture:
+            state.set_mole_fractions(list(self.fractions))
+            state.specify_phase(CoolProp.iphase_gas)
+        return state
+
+    @property
+    def _as(self):
+        """This thread's property-library state object (made on first use in a thread)."""
+        try:
+            return self._local.state
+        except AttributeError:
+            self._local.state = self._new_state()
+            return self._local.state
 
     # ------------------------------------------------------------------ identity
     @property
@@ -483,6 +563,257 @@ class Fluid:
         self._dew_cache[key] = value
         return value
 
+    # ------------------------------------------------------------------ array flashes
+    def states_PT(self, P, T) -> StateArray:
+        """States from arrays of pressure [Pa] and temperature [K] (one flash per entry).
+
+        Same checks as :meth:`state_PT`; entries it would refuse are not valid.  Pure fluids
+        are flashed by the property library's array interface; mixtures entry by entry.
+        """
+        P, T = _pair_arrays(P, T)
+        if self.is_mixture:
+            return self._states_by_entry(self.state_PT, P, T)
+        valid = self._pressure_ok(P) & np.isfinite(T) & self._temperature_ok(T)
+        idx = np.flatnonzero(valid)
+        near = (P[idx] > self.P_triple) & (P[idx] < self.P_critical)
+        if near.any():
+            # P and T do not fix a state at the saturation temperature (as state_PT).
+            t_sat = self._props("T", "P", P[idx[near]], "Q", 0.0)
+            ambiguous = np.abs(T[idx[near]] - t_sat) < 1e-6 * t_sat
+            valid[idx[near][ambiguous]] = False
+        return self._single_phase(P, T, valid)
+
+    def states_Ph(self, P, h) -> StateArray:
+        """States from arrays of pressure [Pa] and specific enthalpy [J/kg].
+
+        Same results and checks as :meth:`state_Ph`, entry by entry.
+        """
+        return self._states_from(P, h, "h")
+
+    def states_Ps(self, P, s) -> StateArray:
+        """States from arrays of pressure [Pa] and specific entropy [J/(kg K)].
+
+        Same results and checks as :meth:`state_Ps`, entry by entry.
+        """
+        return self._states_from(P, s, "s")
+
+    def _states_from(self, P, target, prop: str) -> StateArray:
+        P, target = _pair_arrays(P, target)
+        if self.is_mixture:
+            method = self.state_Ph if prop == "h" else self.state_Ps
+            return self._states_by_entry(method, P, target)
+        valid = self._pressure_ok(P) & np.isfinite(target)
+        if self.backend == "IF97":
+            return self._if97_exact_arrays(P, target, prop, valid)
+        # Helmholtz-energy models: one P-h or P-s flash per entry on the fluid's own state
+        # object (each array-interface output would repeat the iterative flash).
+        if prop == "h":
+            found = self._states_by_entry(lambda p, h: self._flash(
+                CP.HmassP_INPUTS, h, p, f"P={p:.6g} Pa, h={h:.6g} J/kg"), P, target, valid)
+        else:
+            found = self._states_by_entry(lambda p, s: self._flash(
+                CP.PSmass_INPUTS, p, s, f"P={p:.6g} Pa, s={s:.6g} J/(kg K)"), P, target, valid)
+        keep = found.valid & self._temperature_ok(found.T)
+        return _masked(found, keep)
+
+    def _if97_exact_arrays(self, P, target, prop, valid) -> StateArray:
+        """Array form of :meth:`_if97_exact`: lever rule inside the dome, Newton on the forward
+        equations outside it (safeguarded by a bracket, started from the saturation line)."""
+        n = len(P)
+        key = "H" if prop == "h" else "S"
+        out = {name: np.full(n, np.nan) for name in ("T", "h", "s", "rho", "x", "cp")}
+        phase = np.full(n, "", dtype=object)
+        lower = np.full(n, self.T_min)
+        upper = np.full(n, self.T_max)
+        T = np.full(n, np.nan)
+        idx = np.flatnonzero(valid & (P < self.P_critical))
+        if len(idx):
+            t_sat, liq, vap = self._saturation_arrays(P[idx])
+            lo = liq["h" if prop == "h" else "s"]
+            hi = vap["h" if prop == "h" else "s"]
+            value = target[idx]
+            two = (lo <= value) & (value <= hi)
+            x = (value[two] - lo[two]) / (hi[two] - lo[two])
+            v = (1 - x) / liq["rho"][two] + x / vap["rho"][two]
+            rows = idx[two]
+            out["T"][rows] = t_sat[two]
+            out["h"][rows] = liq["h"][two] + x * (vap["h"][two] - liq["h"][two])
+            out["s"][rows] = liq["s"][two] + x * (vap["s"][two] - liq["s"][two])
+            out["rho"][rows] = 1.0 / v
+            out["x"][rows] = x
+            phase[rows] = "two-phase"
+            # Single-phase entries: start on the saturation line with a typical heat capacity
+            # (vapour 2.1, liquid 4.2 kJ/(kg K)) and keep the root bracketed by it.
+            gas, liquid = value > hi, value < lo
+            for side, edge, c_p, bound in ((gas, vap, 2100.0, lower), (liquid, liq, 4200.0, upper)):
+                rows = idx[side]
+                bound[rows] = t_sat[side]
+                excess = value[side] - edge["h" if prop == "h" else "s"][side]
+                if prop == "h":
+                    T[rows] = t_sat[side] + excess / c_p
+                else:
+                    T[rows] = t_sat[side] * np.exp(excess / c_p)
+        high = np.flatnonzero(valid & (P >= self.P_critical))
+        if len(high):
+            T[high] = self._props("T", "P", P[high], key, target[high])  # backward equations
+        active = np.flatnonzero(valid & (phase != "two-phase"))
+        T[active] = np.clip(T[active], lower[active] * (1 + 1e-9), upper[active])
+        done = np.zeros(n, dtype=bool)
+        slopes = np.full(n, np.nan)  # dh/dT = cp or ds/dT = cp/T at the last iterate
+        fresh = np.ones(n, dtype=bool)  # the slope is evaluated again after a large step
+        last_step = np.full(n, np.inf)
+        for _ in range(60):
+            if not len(active):
+                break
+            Ta = T[active]
+            value = self._props(key, "P", P[active], "T", Ta)
+            again = active[fresh[active]]
+            if len(again):
+                cp = self._props("C", "P", P[again], "T", T[again])
+                slopes[again] = cp if prop == "h" else cp / T[again]
+            f = value - target[active]
+            slope = slopes[active]
+            bad = ~(np.isfinite(f) & np.isfinite(slope) & (slope > 0))
+            if bad.any():  # left to the single-state method
+                valid[active[bad]] = False
+                keep = ~bad
+                active, Ta, f, slope = active[keep], Ta[keep], f[keep], slope[keep]
+            above = f > 0
+            upper[active[above]] = np.minimum(upper[active[above]], Ta[above])
+            lower[active[~above]] = np.maximum(lower[active[~above]], Ta[~above])
+            step = -f / slope
+            T_new = Ta + step
+            converged = np.abs(step) < 1e-10 * T_new
+            outside = ~converged & ~((T_new > lower[active]) & (T_new < upper[active]))
+            T_new[outside] = 0.5 * (lower[active][outside] + upper[active][outside])
+            T[active] = T_new
+            # Near the root the heat capacity hardly changes: keep the slope (chord steps)
+            # once the step is below 1e-4 of the temperature and the steps shrink fast.
+            fresh[active] = (np.abs(step) > 1e-4 * Ta) | (np.abs(step) > 1e-3 * last_step[active])
+            last_step[active] = np.abs(step)
+            done[active[converged]] = True
+            active = active[~converged]
+        valid[active] = False  # not converged: the single-state method decides
+        single = np.flatnonzero(valid & done)
+        if len(single):
+            found = self._read_arrays(P[single], "P", P[single], "T", T[single],
+                                      np.ones(len(single), dtype=bool))
+            for name in ("T", "h", "s", "rho", "cp"):
+                out[name][single] = getattr(found, name)
+            phase[single] = found.phase
+            valid[single] = found.valid
+        valid &= np.isfinite(out["T"]) & self._temperature_ok(out["T"])
+        for name in out:
+            out[name][~valid] = np.nan
+        phase[~valid] = ""
+        return StateArray(self, np.where(valid, P, np.nan), out["T"], out["h"], out["s"],
+                          out["rho"], out["x"], out["cp"], phase, valid)
+
+    def _saturation_arrays(self, P):
+        """Saturation temperature [K] and saturated liquid and vapour h, s, rho at P [Pa].
+
+        The last pressure array is remembered: a batch asks for the isentropic and the actual
+        outlet state at the same outlet pressures.
+        """
+        key = P.tobytes()
+        cached = self.__dict__.get("_sat_arrays")
+        if cached is not None and cached[0] == key:
+            return cached[1]
+        t_sat = self._props("T", "P", P, "Q", 0.0)
+        liq = {k: self._props(name, "P", P, "Q", 0.0) for k, name in
+               (("h", "H"), ("s", "S"), ("rho", "D"))}
+        vap = {k: self._props(name, "P", P, "Q", 1.0) for k, name in
+               (("h", "H"), ("s", "S"), ("rho", "D"))}
+        self._sat_arrays = (key, (t_sat, liq, vap))
+        return t_sat, liq, vap
+
+    def _single_phase(self, P, T, valid) -> StateArray:
+        return self._read_arrays(P, "P", P, "T", T, valid)
+
+    def _read_arrays(self, P, name1, value1, name2, value2, valid) -> StateArray:
+        """Read T, h, s, rho, phase (and cp, quality) at the valid entries."""
+        n = len(P)
+        idx = np.flatnonzero(valid)
+        out = {name: np.full(n, np.nan) for name in ("T", "h", "s", "rho", "x", "cp")}
+        phase = np.full(n, "", dtype=object)
+        if len(idx):
+            a, b = value1[idx], value2[idx]
+            for name, key in (("T", "T"), ("h", "H"), ("s", "S"), ("rho", "D"), ("cp", "C")):
+                if name == "T" and name2 == "T":
+                    out["T"][idx] = b  # the flash keeps the given temperature
+                    continue
+                out[name][idx] = self._props(key, name1, a, name2, b)
+            codes = self._props("Phase", name1, a, name2, b)
+            known = np.isfinite(codes) & (codes >= 0) & (codes < len(_PHASE_TABLE))
+            words = np.full(len(idx), "", dtype=object)
+            words[known] = _PHASE_TABLE[codes[known].astype(int)]
+            phase[idx] = words
+            two = words == "two-phase"
+            if two.any():
+                q = self._props("Q", name1, a[two], name2, b[two])
+                rows = idx[two]
+                inside = (q >= 0) & (q <= 1)
+                out["x"][rows[inside]] = q[inside]
+                out["cp"][rows] = np.nan
+        ok = np.isfinite(out["T"] + out["h"] + out["s"] + out["rho"]) & (out["rho"] > 0)
+        ok &= phase != ""
+        valid = valid & ok
+        for name in out:
+            out[name][~valid] = np.nan
+        out["cp"][~np.isfinite(out["cp"])] = np.nan
+        phase[~valid] = ""
+        return StateArray(self, np.where(valid, P, np.nan), out["T"], out["h"], out["s"],
+                          out["rho"], out["x"], out["cp"], phase, valid)
+
+    def _props(self, output: str, name1: str, value1, name2: str, value2) -> np.ndarray:
+        """One output of the property library's array interface (inf/errors become NaN)."""
+        value1 = np.asarray(value1, dtype=float)
+        count = value1.size
+        if count == 0:
+            return np.empty(0)
+        self.flash_count += count
+        if np.ndim(value2) == 0:
+            value2 = np.full(count, float(value2))
+        try:
+            with _ARRAY_LOCK:  # the array interface shares the library's own state objects
+                result = np.asarray(CP.PropsSI(output, name1, value1, name2, value2,
+                                               self._array_name), dtype=float)
+        except Exception:  # the library refuses the whole call: fall back entry by entry
+            result = np.empty(count)
+            for i in range(count):
+                try:
+                    result[i] = CP.PropsSI(output, name1, value1[i], name2, value2[i],
+                                           self._array_name)
+                except Exception:
+                    result[i] = np.nan
+        result = result.reshape(count)
+        result[~np.isfinite(result)] = np.nan
+        return result
+
+    def _states_by_entry(self, method, a, b, where=None) -> StateArray:
+        n = len(a)
+        cols = {name: np.full(n, np.nan) for name in ("P", "T", "h", "s", "rho", "x", "cp")}
+        phase = np.full(n, "", dtype=object)
+        valid = np.zeros(n, dtype=bool)
+        for i in (range(n) if where is None else np.flatnonzero(where)):
+            try:
+                st = method(float(a[i]), float(b[i]))
+            except (InputError, PropertyError):
+                continue
+            for name in ("P", "T", "h", "s", "rho", "cp"):
+                cols[name][i] = getattr(st, name)
+            cols["x"][i] = np.nan if st.x is None else st.x
+            phase[i], valid[i] = st.phase, True
+        return StateArray(self, cols["P"], cols["T"], cols["h"], cols["s"], cols["rho"],
+                          cols["x"], cols["cp"], phase, valid)
+
+    def _pressure_ok(self, P) -> np.ndarray:
+        return np.isfinite(P) & (P > 0) & (P <= self.P_max)
+
+    def _temperature_ok(self, T) -> np.ndarray:
+        with np.errstate(invalid="ignore"):
+            return (T > 0) & (T >= self.T_min * (1 - 1e-9)) & (T <= self.T_max * (1 + 1e-9))
+
     # ------------------------------------------------------------------ internals
     def _check_pressure(self, P: float) -> float:
         if not (isinstance(P, float) or isinstance(P, int)) or not math.isfinite(P):
@@ -644,6 +975,37 @@ class Fluid:
                 f"{label} {target:.6g} at {P / 1e5:.6g} bar lies above the property model's "
                 f"temperature limit {hi:.6g} K for {self.name}")
         raise PropertyError(f"the {label} flash of {self.name} at {P / 1e5:.6g} bar did not converge")
+
+
+def _masked(states: StateArray, keep) -> StateArray:
+    """The same states with the entries outside ``keep`` made not valid (NaN)."""
+    keep = states.valid & keep
+
+    def cut(values):
+        values = values.copy()
+        values[~keep] = np.nan
+        return values
+
+    phase = states.phase.copy()
+    phase[~keep] = ""
+    return StateArray(states.fluid, cut(states.P), cut(states.T), cut(states.h), cut(states.s),
+                      cut(states.rho), cut(states.x), cut(states.cp), phase, keep)
+
+
+def _pair_arrays(a, b):
+    """Two equal-length 1-D float arrays (a scalar is repeated)."""
+    a = np.atleast_1d(np.asarray(a, dtype=float))
+    b = np.atleast_1d(np.asarray(b, dtype=float))
+    if a.ndim != 1 or b.ndim != 1:
+        raise InputError("state arrays take one-dimensional arrays of numbers")
+    if len(a) != len(b):
+        if len(a) == 1:
+            a = np.full(len(b), a[0])
+        elif len(b) == 1:
+            b = np.full(len(a), b[0])
+        else:
+            raise InputError(f"state arrays need equal lengths, not {len(a)} and {len(b)}")
+    return a, b
 
 
 def _rebuild_fluid(spec, backend):

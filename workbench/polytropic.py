@@ -231,6 +231,9 @@ def polytropic_efficiency(inlet: State, outlet: State, guess: float | None = Non
         u0 = 1.0 / eta0 if compression else eta0
         to_eta = (lambda u: 1.0 / u) if compression else (lambda u: u)
         h0, _, head0 = _path(inlet, outlet.P, to_eta(u0), steps)
+        if h0 == inlet.h:
+            raise PropertyError("the pressure change is too small for a polytropic path: the "
+                                "path does not change the enthalpy")
         # first step from the proportionality h_end - h1 ~ u
         u1 = u0 * (target - inlet.h) / (h0 - inlet.h)
         scale = abs(target - inlet.h)

@@ -11,7 +11,13 @@ whose readings are missing, not numbers or inconsistent gets a ``status`` and th
 ``message`` (the text of the error the core raised, which names the input, the value and the
 allowed range), and its result columns are NaN; the other rows are computed.
 
-Speed: one :class:`workbench.Fluid` (one property-library state object) serves every row; the
+Speed: for pure fluids (steam on IAPWS-IF97, water, air, refrigerants) the cheap results
+(:data:`ARRAY_RESULTS`) are computed for the whole frame at once with the array flashes of
+:class:`workbench.Fluid` (``states_PT``/``states_Ph``/``states_Ps``) and the same equations
+and checks as the core; a row the arrays cannot settle (a reading the core would refuse, a
+state not found) goes through the single-point API, which gives its status and message.
+Mixtures and the costly results go row by row: one :class:`workbench.Fluid` (one
+property-library state object) serves every row; the
 standard density for standard volume flows is computed once; rows with identical readings
 (a historian repeating its last value) are solved once; the cheap checks (missing cells,
 non-positive absolute pressures, missing flow) are vectorised over the frame before the row
@@ -82,6 +88,74 @@ _LABEL = {
     "mass_flow": "mass flow", "volume_flow": "volume flow",
     "standard_volume_flow": "standard volume flow", "power": "power",
 }
+
+
+#: Results the whole-array path computes (pure fluids); others go row by row.
+ARRAY_RESULTS = ("power", "shaft_power", "specific_work", "isentropic_efficiency",
+                 "isentropic_head", "pressure_ratio", "outlet_temperature", "outlet_quality",
+                 "mass_flow", "inlet_volume_flow", "pump_head")
+
+
+def _evaluate_arrays(machine, fluid, mode, mechanical_efficiency, names, p1, t1, p2, second,
+                     flow, flow_name, rho_standard):
+    """Energy balance of many rows at once (pure fluids, no kinetic or heat terms).
+
+    The same equations and checks as :func:`workbench.machines.turbomachine.energy_balance`
+    with zero velocities, elevation change and heat loss, over arrays.  Returns the result
+    columns and the mask of rows settled; a row is left unsettled (for the single-point API)
+    whenever a state is not found or any check of the core would refuse it.
+    """
+    raises = machine != "turbine"
+    eta_m = float(mechanical_efficiency)
+    inlet = fluid.states_PT(p1, t1)
+    if flow_name == "volume_flow":
+        m = flow * inlet.rho
+    elif flow_name == "standard_volume_flow":
+        m = flow * rho_standard
+    else:
+        m = flow
+    with np.errstate(invalid="ignore"):
+        ok = inlet.valid & (p2 > p1 if raises else p2 < p1) & fluid._pressure_ok(p2)
+        ok &= np.abs(p2 - p1) > 1e-9 * p1
+        if machine == "pump":
+            ok &= ~np.isin(inlet.phase, ("gas", "two-phase"))
+        if not 0.0 < eta_m <= 1.0:
+            ok[:] = False
+    iso = fluid.states_Ps(np.where(ok, p2, np.nan), inlet.s)
+    if mode == "outlet":
+        outlet = fluid.states_PT(np.where(ok, p2, np.nan), second)
+    else:
+        # w_in = dh (no kinetic, potential or heat terms); the measured power is at the shaft
+        w_fluid = second * eta_m / m if raises else second / (eta_m * m)
+        outlet = fluid.states_Ph(np.where(ok, p2, np.nan), inlet.h + (w_fluid if raises
+                                                                       else -w_fluid))
+    ok &= iso.valid & outlet.valid
+    with np.errstate(invalid="ignore", divide="ignore"):
+        dh = outlet.h - inlet.h
+        work = dh if raises else -dh
+        # static isentropic efficiency, compression (h2s - h1)/(h2 - h1), expansion
+        # (h1 - h2)/(h1 - h2s)
+        if raises:
+            eta = (iso.h - inlet.h) / dh
+        else:
+            eta = (inlet.h - outlet.h) / (inlet.h - iso.h)
+        ok &= (work > 0) & (eta > 0) & (eta <= 1 + 1e-9)
+        fluid_power = work * m
+        head = np.abs(iso.h - inlet.h)
+        columns = {
+            "power": fluid_power,
+            "shaft_power": fluid_power / eta_m if raises else fluid_power * eta_m,
+            "specific_work": work,
+            "isentropic_efficiency": eta,
+            "isentropic_head": head,
+            "pressure_ratio": outlet.P / inlet.P,
+            "outlet_temperature": outlet.T,
+            "outlet_quality": outlet.x,
+            "mass_flow": m * np.ones(len(p1)),
+            "inlet_volume_flow": m / inlet.rho,
+            "pump_head": head / STANDARD_GRAVITY,
+        }
+    return np.column_stack([columns[name] for name in names]), ok
 
 
 def _is_dask(frame) -> bool:
@@ -261,8 +335,18 @@ def evaluate(frame, machine: str = "compressor", fluid=None, *, columns: dict | 
     getters = [RESULTS[name][1] for name in names]
     p1, t1, p2 = values["inlet_pressure"], values["inlet_temperature"], values["outlet_pressure"]
     second = values["outlet_temperature"] if mode == "outlet" else values["power"]
+    todo = np.flatnonzero(status == STATUS_OK)
+    if not fluid.is_mixture and set(names) <= set(ARRAY_RESULTS) and len(todo):
+        # Pure fluids: whole-array flashes; the rows the array path cannot settle (a reading
+        # the core would refuse, a state not found) go through the single-point API below,
+        # which gives their status and message.
+        computed, settled = _evaluate_arrays(
+            machine, fluid, mode, mechanical_efficiency, names, p1[todo], t1[todo], p2[todo],
+            second[todo], flow[todo], flow_name, rho_standard)
+        out[todo[settled]] = computed[settled]
+        todo = todo[~settled]
     done: dict = {}  # identical readings (a historian repeating its last value) solved once
-    for i in np.flatnonzero(status == STATUS_OK):
+    for i in todo:
         key = (p1[i], t1[i], p2[i], second[i], flow[i])
         if key in done:
             status[i], message[i], out[i] = done[key]
@@ -306,6 +390,6 @@ def evaluate(frame, machine: str = "compressor", fluid=None, *, columns: dict | 
     return result
 
 
-__all__ = ["evaluate", "RESULTS", "DEFAULT_RESULTS", "STANDARD_CONDITIONS", "result_columns",
+__all__ = ["evaluate", "RESULTS", "ARRAY_RESULTS", "DEFAULT_RESULTS", "STANDARD_CONDITIONS", "result_columns",
            "STATUS_OK", "STATUS_MISSING", "STATUS_NOT_NUMBER", "STATUS_INVALID",
            "STATUS_INCONSISTENT", "STATUS_RANGE", "STATUS_FAILED"]

@@ -396,6 +396,10 @@ def energy_balance(kind: str, inlet: State, outlet: State | None = None, *, P_ou
         raise InputError(
             f"outlet pressure {P2 / 1e5:.6g} bar is not below inlet pressure {P1 / 1e5:.6g} bar: "
             "a turbine lowers pressure")
+    if abs(P2 - P1) <= 1e-9 * P1:
+        raise InputError(
+            f"outlet pressure {P2 / 1e5:.9g} bar equals the inlet pressure {P1 / 1e5:.9g} bar to "
+            f"one part in a billion: there is no pressure change to rate a {kind} by")
     if kind == "pump" and inlet.phase in ("gas", "two-phase"):
         raise InputError(f"the pump inlet is {fluid.name} {inlet.phase} at {inlet.T:.5g} K and "
                          f"{P1 / 1e5:.5g} bar: a pump needs liquid at its inlet "
