@@ -159,3 +159,31 @@ def test_stop_process_ends_the_child():
     finally:
         if child.poll() is None:
             child.kill()
+
+
+def test_a_wheel_carries_the_dashboards_and_the_data(tmp_path):
+    # Packaging: a non-editable install must still find the dashboard notebooks
+    # (<prefix>/share/turbo-workbench/notebooks) and the case and demo files.
+    import pathlib
+    import shutil
+    import subprocess
+    import sys
+    import zipfile
+
+    root = pathlib.Path(cli.__file__).resolve().parents[1]
+    if not (root / "pyproject.toml").is_file():
+        pytest.skip("not a source checkout")
+    source = tmp_path / "src"
+    shutil.copytree(root, source, ignore=shutil.ignore_patterns(
+        ".git", "*.egg-info", "build", "__pycache__", ".ipynb_checkpoints", "docs"))
+    done = subprocess.run([sys.executable, "-m", "pip", "wheel", "--no-deps",
+                           "--no-build-isolation", "-w", str(tmp_path / "dist"), str(source)],
+                          capture_output=True, text=True, timeout=600)
+    assert done.returncode == 0, done.stderr[-2000:]
+    wheel = next((tmp_path / "dist").glob("*.whl"))
+    names = zipfile.ZipFile(wheel).namelist()
+    for dashboard in cli.DASHBOARDS:
+        assert any(n.endswith(f"data/share/turbo-workbench/notebooks/{dashboard}")
+                   for n in names), dashboard
+    assert any(n.startswith("workbench/cases/") and n.endswith(".json") for n in names)
+    assert "workbench/data/booster_compressor_readings.csv" in names

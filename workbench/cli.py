@@ -21,7 +21,6 @@ import sys
 import threading
 import time
 import webbrowser
-from importlib import resources
 from pathlib import Path
 
 from . import SAFETY_CAUTION
@@ -48,7 +47,7 @@ def notebooks_dir() -> Path:
     """Folder of the dashboard notebooks.
 
     The ``notebooks/`` folder beside the package (a checkout or an editable install) wins;
-    else the copy shipped as package data in ``workbench/notebooks``.
+    else the copy a wheel installs under ``<prefix>/share/turbo-workbench/notebooks``.
 
     Returns
     -------
@@ -61,7 +60,7 @@ def notebooks_dir() -> Path:
         When neither folder holds the dashboards.
     """
     checkout = Path(__file__).resolve().parent.parent / "notebooks"
-    shipped = Path(str(resources.files("workbench") / "notebooks"))
+    shipped = Path(sys.prefix) / "share" / "turbo-workbench" / "notebooks"
     for folder in (checkout, shipped):
         if all((folder / name).is_file() for name in DASHBOARDS):
             return folder
