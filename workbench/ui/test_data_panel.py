@@ -292,14 +292,13 @@ class FieldDataPanel(widgets.VBox):
                                          description="Readings file")
         self.upload.add_class("wb-input-file")
         self.upload.observe(self._uploaded, names="value")
-        self.machine = self._dropdown("machine", "Machine", ["compressor", "turbine", "pump",
-                                                             "fan"], machine, "340px")
+        self.machine = self._dropdown("machine", "", ["compressor", "turbine", "pump", "fan"],
+                                      machine, "150px", "0px")
         self.fluid = widgets.Text(value=fluid, description="Fluid",
                                   layout=widgets.Layout(width="760px"),
                                   style={"description_width": "170px"})
         self.fluid.add_class("wb-input-fluid")
-        self.backend = self._dropdown("backend", "Property model", ["HEOS", "IF97"], backend,
-                                      "340px")
+        self.backend = self._dropdown("backend", "", ["HEOS", "IF97"], backend, "150px", "0px")
         self.ambient = NumberEntry("ambient-pressure", "Ambient pressure", "absolute_pressure",
                                    ambient_pressure, system="bar, degC")
         self.mech = NumberEntry("mechanical-efficiency", "Mechanical efficiency", "percent",
@@ -346,8 +345,9 @@ class FieldDataPanel(widgets.VBox):
         self.steady_window.observe(lambda _change: self._steady_changed(), names="value")
         self.u_pressure = NumberEntry("u-pressure", "Pressure b", "percent", 0.0025,
                                       system="bar, degC")
-        self.u_temperature = NumberEntry("u-temperature", "Temperature b (K)",
-                                         "dimensionless", 0.2, system="bar, degC")
+        self.u_temperature = NumberEntry("u-temperature", "Temperature b", "dimensionless",
+                                         0.2, system="bar, degC")
+        self.u_temperature.unit.value = "K"
         self.u_flow = NumberEntry("u-flow", "Flow b", "percent", 0.01,
                                   system="bar, degC")
         self.u_power = NumberEntry("u-power", "Power b", "percent", 0.01,
@@ -359,8 +359,9 @@ class FieldDataPanel(widgets.VBox):
                                    _nan(design.power), system="bar, degC")
         self.d_flow = NumberEntry("design-flow", "Design inlet flow", "volume_flow",
                                   _nan(design.volume_flow), system="bar, degC")
-        self.d_speed = NumberEntry("design-speed", "Rated speed (rpm)", "dimensionless",
+        self.d_speed = NumberEntry("design-speed", "Rated speed", "dimensionless",
                                    _nan(design.speed), system="bar, degC")
+        self.d_speed.unit.value = "rpm"
         self.run = widgets.Button(description="Evaluate all rows", button_style="primary",
                                   layout=widgets.Layout(width="200px", margin="8px 0 4px 0"))
         self.run.add_class("wb-input-evaluate")
@@ -384,7 +385,8 @@ class FieldDataPanel(widgets.VBox):
         column = widgets.Layout(width="350px", margin="0 16px 0 0")
         machine_box = widgets.VBox([
             self.fluid, widgets.HBox([
-                widgets.VBox([_heading("Machine"), self.machine, self.backend, self.ambient,
+                widgets.VBox([_heading("Machine"), _labelled("Machine", self.machine),
+                              _labelled("Property model", self.backend), self.ambient,
                               self.mech], layout=column),
                 widgets.VBox([_heading("Instrument systematic uncertainty (1 sigma)"),
                               self.u_pressure, self.u_temperature, self.u_flow,
@@ -850,6 +852,12 @@ _CSS = """
 def _title(file_name: str) -> str:
     name = (f" <span class='wb-file'>{html.escape(file_name)}</span>" if file_name else "")
     return f"<h3 style='margin:4px 0'>Readings file{name}</h3>"
+
+
+def _labelled(label: str, widget) -> widgets.HBox:
+    """A widget behind a left-aligned label, lined up with the number entries."""
+    return widgets.HBox([widgets.Label(label, layout=widgets.Layout(width="170px")), widget],
+                        layout=widgets.Layout(align_items="center"))
 
 
 def _heading(text: str) -> widgets.HTML:
