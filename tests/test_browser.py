@@ -167,3 +167,13 @@ def test_test_data_dashboard_shows_table_chart_and_reports_a_bad_tolerance(
     assert page.locator(".wb-result-table tr.wb-row-flagged").count() == 6
     assert page.locator(".wb-result-summary .wb-stale").count() == 1
     page.screenshot(path=str(screenshots / "test-data-bad-input.png"), full_page=True)
+
+    # a valid, tighter outlet-temperature tolerance: more hollow (unsteady) points in the
+    # chart drawn on the page, i.e. the figure's traces were updated in the browser
+    unsteady_points = ("() => document.querySelectorAll('.wb-result-figure .scatterlayer')[0]"
+                       ".querySelectorAll('.trace')[1].querySelectorAll('.point').length")
+    before = page.evaluate(unsteady_points)
+    commit_entry(page, "tolerance-inlet-pressure", "0.19")
+    commit_entry(page, "tolerance-outlet-temperature", "0.2")
+    page.wait_for_function(f"() => ({unsteady_points})() > {before}", timeout=UPDATE_TIMEOUT)
+    assert page.locator(".wb-result-summary .wb-fresh").count() == 1
