@@ -12,17 +12,22 @@ the aims:
   server started and settled (warm kernels ready);
 * time from an entry change (Enter pressed) to the updated result, for a pure fluid
   (turbine dashboard, steam) and a natural-gas mixture (compressor dashboard);
-* time of a 50-point sweep, when the panel has one ("sweep: not available" otherwise).
+* time from opening the "process charts" tab to the h-s and T-s diagrams drawn with the
+  result's points (the panel builds its charts when that tab is first opened);
+* time of a 50-point sweep to its table, and to its chart drawn, when the panel has one
+  ("sweep: not available" otherwise).
 
 As a same-process baseline it times building the panel in this Python process
-(``MachinePanel(case=...)``, which makes the first calculation) and prints the ratio of the
-browser's first-result time to it: the share of the wait that is serving and rendering.
+(``MachinePanel(case=...)``, which makes the first calculation), and building its charts
+(``show_charts``), and prints the ratio of the browser's first-result time to the panel
+build: the share of the wait that is serving and rendering.
 Only addresses on this machine are contacted; every wait is bounded.
 """
 
 from __future__ import annotations
 
 import os
+import pathlib
 import re
 import shutil
 import socket
@@ -33,7 +38,10 @@ import tempfile
 import time
 import urllib.request
 
-from workbench import cli
+# run from a checkout without an install: the package beside this folder
+sys.path.insert(0, str(pathlib.Path(__file__).resolve().parents[1]))
+
+from workbench import cli  # noqa: E402
 
 CHROMIUM_ARGS = [
     "--headless", "--no-sandbox", "--disable-gpu", "--disable-quic", "--no-first-run",
@@ -43,6 +51,7 @@ AIM_FIRST_RESULT = 5.0  # [s]
 AIM_UPDATE_PURE = 0.5  # [s]
 AIM_UPDATE_MIXTURE = 1.0  # [s]
 AIM_SWEEP = 3.0  # [s]
+AIM_CHARTS = 5.0  # [s] from opening the charts tab to the diagrams drawn
 SWEEP_POINTS = 50
 REPEATS = 5
 TIMEOUT_MS = 90_000
@@ -122,8 +131,30 @@ def update_times(page, entry: str, steps: tuple[float, float], selector: str) ->
     return times
 
 
-def sweep_time(page) -> float | None:
-    """Time [s] of a 50-point sweep, or None when the panel has no sweep."""
+def wait_points(page, selector: str, count: int) -> None:
+    """Wait until at least ``count`` plotly markers are drawn inside ``selector``."""
+    page.wait_for_function(
+        "([sel, n]) => document.querySelectorAll(sel + ' .main-svg .scatterlayer .point')"
+        ".length >= n", arg=[selector, count], timeout=TIMEOUT_MS)
+
+
+def charts_time(page) -> float | None:
+    """Time [s] from a click on the "process charts" tab to both diagrams drawn with their
+    inlet and outlet markers; None when the panel has no such tab."""
+    tab = page.locator(".wb-tabs .lm-TabBar-tab, .wb-tabs .p-TabBar-tab",
+                       has_text="process charts")
+    if tab.count() == 0:
+        return None
+    start = time.perf_counter()
+    tab.first.click()
+    # inlet and outlet markers in both diagrams, and the isentropic end in both
+    wait_points(page, ".wb-tabs", 6)
+    return time.perf_counter() - start
+
+
+def sweep_time(page) -> tuple[float, float | None] | None:
+    """Times [s] of a 50-point sweep to its table and to its chart drawn, or None when the
+    panel has no sweep."""
     run = page.locator(".wb-input-sweep-run")
     if run.count() == 0:
         return None
@@ -144,18 +175,28 @@ def sweep_time(page) -> float | None:
         "([sel, old]) => { const e = document.querySelector(sel);"
         " return e && e.innerText !== old && /\\d/.test(e.innerText); }",
         arg=[table, old], timeout=TIMEOUT_MS)
-    return time.perf_counter() - start
+    to_table = time.perf_counter() - start
+    if page.locator(".wb-sweep-chart").count() == 0:  # a panel without the chart hook
+        return to_table, None
+    wait_points(page, ".wb-sweep-chart", SWEEP_POINTS)
+    return to_table, time.perf_counter() - start
 
 
-def in_process_panel_build(case: str) -> float | None:
-    """Baseline: seconds to build the panel in this process (first calculation included)."""
+def in_process_panel_build(case: str) -> tuple[float, float | None] | None:
+    """Baseline: seconds to build the panel in this process (first calculation included)
+    and then its process charts (None when the panel builds them with itself)."""
     try:
         from workbench.ui import MachinePanel
     except ImportError:
         return None
     start = time.perf_counter()
-    MachinePanel(case=case)
-    return time.perf_counter() - start
+    panel = MachinePanel(case=case)
+    built = time.perf_counter() - start
+    if not hasattr(panel, "show_charts"):
+        return built, None
+    start = time.perf_counter()
+    panel.show_charts()
+    return built, time.perf_counter() - start
 
 
 def line(name: str, measured: float | None, aim: float) -> None:
@@ -192,6 +233,7 @@ def main() -> int:
                                                 ".wb-result-isentropic-efficiency")
                 mixture = update_times(page, "outlet-temperature", (5.0, -5.0),
                                        ".wb-result-isentropic-efficiency")
+                chart = charts_time(page)
                 sweep = sweep_time(page)
                 page = browser.new_page(viewport={"width": 1400, "height": 1000})
                 first_turbine = first_result(page, base + "turbine.ipynb", ".wb-result-power")
@@ -214,16 +256,25 @@ def main() -> int:
     line("update, pure fluid (turbine, steam)", statistics.median(pure), AIM_UPDATE_PURE)
     line("update, mixture (compressor, natural gas)", statistics.median(mixture),
          AIM_UPDATE_MIXTURE)
+    if chart is None:
+        print("process charts tab: not available (charts built with the panel)")
+    else:
+        line("charts tab opened to diagrams drawn", chart, AIM_CHARTS)
     if sweep is None:
         print("sweep: not available")
     else:
-        line(f"sweep, {SWEEP_POINTS} points (compressor)", sweep, AIM_SWEEP)
+        line(f"sweep, {SWEEP_POINTS} points, to its table", sweep[0], AIM_SWEEP)
+        if sweep[1] is not None:
+            print(f"{'  ... to its chart drawn':44s}  {sweep[1]:7.3f} s")
     print(f"  update times pure [s]:    {' '.join(f'{t:.3f}' for t in pure)}")
     print(f"  update times mixture [s]: {' '.join(f'{t:.3f}' for t in mixture)}")
     baseline = in_process_panel_build("compressor-demo")
     if baseline:
-        print(f"baseline: compressor panel built in this process in {baseline:.3f} s; "
-              f"browser first result / in-process build = {first_compressor / baseline:.1f}")
+        built, charts = baseline
+        print(f"baseline: compressor panel built in this process in {built:.3f} s; "
+              f"browser first result / in-process build = {first_compressor / built:.1f}")
+        if charts is not None:
+            print(f"          its process charts built in this process in {charts:.3f} s")
     return 0
 
 

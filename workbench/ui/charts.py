@@ -70,6 +70,46 @@ def polytropic_path_points(result, efficiency: float | None = None, steps: int =
     return _arrays(states)
 
 
+_PRELOAD: dict = {}
+
+
+def preload_figure_widget(background: bool = True):
+    """Import plotly's FigureWidget ahead of the first chart (once per process).
+
+    The import is slow (seconds: plotly's renderers import ``nbformat`` and with it
+    ``jsonschema``, whose format checks may compile grammars), so a panel that shows its
+    numbers first and its charts later starts it in a background thread right after its
+    first result; the first chart then does not wait for it.
+
+    Parameters
+    ----------
+    background : bool
+        Import in a daemon thread (True) or now (False).
+
+    Returns
+    -------
+    threading.Thread or None
+        The thread importing, or None when imported already or ``background`` is False.
+    """
+    import threading
+
+    def run():
+        try:
+            import plotly.graph_objs._figurewidget  # noqa: F401
+        except ImportError:  # no widget front end (anywidget): plain figures are used
+            pass
+
+    if _PRELOAD.get("started"):
+        return None
+    _PRELOAD["started"] = True
+    if not background:
+        run()
+        return None
+    thread = threading.Thread(target=run, name="plotly-preload", daemon=True)
+    thread.start()
+    return thread
+
+
 def new_figure():
     """A plotly FigureWidget, or a plain Figure when the widget front end (anywidget) is
     not installed; show a plain Figure with :func:`figure_view` / :func:`refresh_view`."""

@@ -61,8 +61,10 @@ from .common import (
     unit_switch,
 )
 
-#: Significant figures of the quantity shown in an entry after a unit conversion.
+#: Significant figures of the quantity shown in an entry after a unit conversion; the
+#: ambient pressure keeps one more, so the standard atmosphere shows as 1.01325 bar.
 ENTRY_FIGURES = 5
+_ENTRY_FIGURES = {"ambient-pressure": 6}
 
 #: Standard reference conditions of standard volume flow: 15 degC, 1.01325 bar
 #: (ISO 13443, common practice for natural gas).
@@ -349,6 +351,7 @@ def composition_text(composition: dict) -> str:
 #: Tabs below the entries; the process charts are built when their tab is first opened.
 TAB_TITLES = ("process states", "process charts", "sweep", "case file")
 _CHART_TAB = TAB_TITLES.index("process charts")
+_SWEEP_TAB = TAB_TITLES.index("sweep")
 
 
 def _h(text, level=4):
@@ -396,6 +399,7 @@ class MachinePanel(widgets.VBox):
         super().__init__(self._layout(), layout=widgets.Layout(width="100%", max_width="1400px"))
         self.add_class("wb-machine-panel")
         self._recalculate()
+        charts.preload_figure_widget()  # the charts are built later: import plotly now
 
     # ------------------------------------------------------------------ building
     @property
@@ -422,7 +426,8 @@ class MachinePanel(widgets.VBox):
             self.entries[name] = NumberEntry(name, label, kind, inp[key],
                                              on_change=self._guard(self._entry_changed),
                                              system=self.system, ambient_pressure=self.ambient,
-                                             significant=ENTRY_FIGURES)
+                                             significant=_ENTRY_FIGURES.get(name,
+                                                                            ENTRY_FIGURES))
         self.choices = {}
         for name, (key, label, options) in CHOICES.items():
             w = choice(name, label, options, inp[key])
@@ -493,7 +498,8 @@ class MachinePanel(widgets.VBox):
         self.sweep_button.add_class("wb-input-sweep-run")
         self.sweep_button.on_click(self._guard(lambda _b: self.run_sweep()))
         self.sweep_view = widgets.Box([widgets.HTML(
-            "<i style='color:#8a8a8a'>run a sweep to draw its chart</i>")])
+            "<i style='color:#8a8a8a'>the sweep chart is drawn here</i>")])
+        self.sweep_view.add_class("wb-sweep-chart")
         self.sweep_note = widgets.HTML("")
         self.sweep_note.add_class("wb-result-sweep-note")
         self.sweep_link = widgets.HTML("")
@@ -785,12 +791,6 @@ class MachinePanel(widgets.VBox):
             columns[col] = table[col].tolist()
         self.sweep_table = table
         self.sweep_csv = table.to_csv(index=False)
-        if self.sweep_figure is None:  # the first sweep builds the figure with its data
-            self.sweep_figure = charts.sweep_figure(x_values, columns, x_col)
-            self.sweep_view.children = (charts.figure_view(self.sweep_figure),)
-        else:  # later sweeps change it in place
-            charts.update_sweep_figure(self.sweep_figure, x_values, columns, x_col)
-            charts.refresh_view(self.sweep_view.children[0], self.sweep_figure)
         encoded = base64.b64encode(self.sweep_csv.encode("utf-8")).decode("ascii")
         self.sweep_link.value = (f"<a download='sweep.csv' href='data:text/csv;base64,{encoded}'"
                                  " target='_blank'>download the table (CSV)</a>")
@@ -800,6 +800,13 @@ class MachinePanel(widgets.VBox):
         if failures:
             note += f", {len(failures)} failed (gaps): {html.escape(failures[0])}"
         self.sweep_note.value = note
+        # the numbers are shown; now the chart (built once, then changed in place)
+        try:
+            self._ensure_sweep_figure()
+            charts.update_sweep_figure(self.sweep_figure, x_values, columns, x_col)
+            charts.refresh_view(self.sweep_view.children[0], self.sweep_figure)
+        except Exception as exc:  # noqa: BLE001 - the table is good; the chart is not
+            self._set_message("the sweep chart could not be drawn: " + describe_error(exc))
         return table
 
     # ------------------------------------------------------------------ callbacks
@@ -871,6 +878,14 @@ class MachinePanel(widgets.VBox):
     def _tab_changed(self, change):
         if change["new"] == _CHART_TAB:
             self.show_charts()
+        elif change["new"] == _SWEEP_TAB:
+            self._ensure_sweep_figure()
+
+    def _ensure_sweep_figure(self):
+        """Build the (empty) sweep figure if not built yet; later sweeps fill it in place."""
+        if self.sweep_figure is None:
+            self.sweep_figure = charts.make_sweep_figure()
+            self.sweep_view.children = (charts.figure_view(self.sweep_figure),)
 
     def _units_changed(self, change):
         self._set_unit_system(change["new"])
