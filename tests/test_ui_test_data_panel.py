@@ -100,6 +100,10 @@ def test_table_colours_flagged_rows_and_export_has_every_row(demo):
     np.testing.assert_allclose(exported.loc[ok, "efficiency_deviation_points"],
                                100 * (exported.loc[ok, "isentropic_efficiency"] - 0.77),
                                rtol=1e-9)
+    # the design power is a shaft (coupling) power: deviation 100 (P_shaft / 1.70 MW - 1) %
+    # (definition), the same power the chart shows
+    np.testing.assert_allclose(exported.loc[ok, "power_deviation_percent"],
+                               100 * (exported.loc[ok, "shaft_power"] / 1.70e6 - 1), rtol=1e-9)
 
 
 def test_one_figure_widget_updated_in_place():
