@@ -292,3 +292,56 @@ def test_one_fluid_serves_several_threads():
     assert seen[0] is not seen[1]
     assert results["up"] == serial
     assert results["down"] == serial[::-1]
+
+
+def test_dense_natural_gas_above_the_cricondenbar_is_accepted():
+    # Common practice (value from memory): the phase envelope of a lean natural gas
+    # (~89 % methane) closes near 50 bar and 225 K, so gas at 200 bar and 400 K - an export
+    # or injection compressor's discharge - is single-phase.  The property library's dew-point
+    # solver returns a trivial solution there (about 1394 K), which must not refuse the state.
+    gas = wb.Fluid({"Methane": 0.89, "Ethane": 0.06, "Propane": 0.02, "Nitrogen": 0.015,
+                    "CarbonDioxide": 0.015})
+    for pressure in (150e5, 200e5, 250e5):
+        assert gas.state_PT(pressure, 400.0).phase == "gas"
+        assert gas.dew_temperature(pressure) is None
+    t_dew = gas.dew_temperature(45e5)
+    assert 195.0 < t_dew < 230.0  # below the critical temperature of ethane, above methane's
+    with pytest.raises(PropertyError, match="dew point"):
+        gas.state_PT(45e5, t_dew - 1.0)
+
+
+def test_dew_line_table_gives_the_exact_verdicts():
+    # Source: the exact dew-point flash of the same mixture (a fluid that never tabulates).
+    # After many distinct pressures a fluid tabulates its dew line; its bounds must hold the
+    # exact dew point, and states either side of the line get the same verdict as before.
+    import numpy as np
+
+    spec = {"Methane": 0.89, "Ethane": 0.06, "Propane": 0.03, "Nitrogen": 0.02}
+    gas, exact = wb.Fluid(spec), wb.Fluid(spec)
+    exact.DEW_TABLE_AFTER = 10 ** 9
+    pressures = np.geomspace(2e5, 40e5, 40)
+    for pressure in pressures:
+        gas.dew_temperature(float(pressure))
+    checked = 0
+    for pressure in pressures[::4] * 1.013:
+        pressure = float(pressure)
+        t_dew = exact.dew_temperature(pressure)
+        bounds = gas._dew_bounds(pressure)
+        if t_dew is None or bounds is None:
+            continue
+        checked += 1
+        assert bounds[0] < t_dew < bounds[1]
+        for T in (t_dew - 0.05, t_dew + 0.05, t_dew + 3.0, t_dew + 150.0):
+            if T < gas.T_min:
+                continue
+            verdicts = []
+            for fluid in (gas, exact):
+                try:
+                    verdicts.append(fluid.state_PT(pressure, T).h)
+                except PropertyError:
+                    verdicts.append("refused")
+            assert verdicts[0] == verdicts[1] or verdicts[0] == pytest.approx(verdicts[1])
+        s = exact.state_PT(pressure, t_dew + 40.0).s
+        assert gas.state_Ps(pressure * 1.5, s).T == pytest.approx(
+            exact.state_Ps(pressure * 1.5, s).T, rel=1e-9)
+    assert checked >= 5

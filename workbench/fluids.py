@@ -279,6 +279,7 @@ class Fluid:
         if self.is_mixture:
             # Each component's model must be valid too.
             self.T_min = max(self.T_min, max(CP.PropsSI("Tmin", n) for n in names))
+            self._highest_critical = max(CP.PropsSI("Tcrit", n) for n in names)
             self.T_critical = self.P_critical = float("nan")
             self._dew_cache: dict = {}
         else:
@@ -544,7 +545,14 @@ class Fluid:
 
     def dew_temperature(self, P: float) -> float | None:
         """Dew-point temperature [K] of a mixture at P [Pa], ``None`` if it cannot be found
-        (above the cricondenbar, or the phase-envelope solver did not converge)."""
+        (above the cricondenbar, or the phase-envelope solver did not converge).
+
+        The property library's dew-point solver can return the trivial solution above the
+        cricondenbar (an "incipient liquid" with the density of the gas, e.g. 1394 K for a
+        lean natural gas at 200 bar); such solutions, and any above the highest critical
+        temperature of the components (no dew point lies there for the mixtures of this
+        region), are not dew points and give ``None``.
+        """
         key = round(math.log(P), 9)
         if key in self._dew_cache:
             return self._dew_cache[key]
@@ -554,14 +562,54 @@ class Fluid:
             a.unspecify_phase()
             a.update(CP.PQ_INPUTS, P, 1.0)
             value = a.T()
-            if not math.isfinite(value) or value <= 0:
+            liquid = a.saturated_liquid_keyed_output(CP.iDmolar)
+            vapour = a.saturated_vapor_keyed_output(CP.iDmolar)
+            if not math.isfinite(value) or value <= 0 or value > self._highest_critical:
                 value = None
+            elif not abs(liquid - vapour) > 1e-6 * abs(vapour):
+                value = None  # trivial solution: the two "phases" are the same
         except Exception:
             value = None
         finally:
             a.specify_phase(CoolProp.iphase_gas)
         self._dew_cache[key] = value
         return value
+
+    #: Distinct dew-point flashes after which a fluid builds its dew-line table (a batch).
+    DEW_TABLE_AFTER = 24
+
+    def _dew_bounds(self, P: float):
+        """Bounds (low, high) [K] on the dew temperature at P [Pa] from the dew-line table, or
+        ``None`` where the table cannot vouch for it (then the exact dew point is needed).
+
+        The dew-point flash costs milliseconds; a batch of rows at ever different pressures
+        would do one per state.  After :data:`DEW_TABLE_AFTER` distinct flashes the fluid
+        tabulates the dew line on a log-pressure grid, checks the linear interpolation at each
+        interval's midpoint, and gives bounds widened to 0.5 K plus 20 times that check.
+        A state clear of the high bound needs no flash; any other state (and every state in an
+        interval where a flash of the table failed, e.g. near the cricondenbar) gets the exact
+        one.
+        """
+        table = self.__dict__.get("_dew_table")
+        if table is None:
+            if len(self._dew_cache) < self.DEW_TABLE_AFTER:
+                return None
+            table = self._dew_table = self._build_dew_table()
+        grid, values, margins = table
+        x = math.log(P)
+        k = int(np.searchsorted(grid, x)) - 1
+        if k < 0 or k >= len(grid) - 1 or not math.isfinite(margins[k]):
+            return None
+        t = values[k] + (values[k + 1] - values[k]) * (x - grid[k]) / (grid[k + 1] - grid[k])
+        return t - margins[k], t + margins[k]
+
+    def _build_dew_table(self):
+        grid = np.linspace(math.log(1e4), math.log(2e7), 81)
+        values = np.array([_none_nan(self.dew_temperature(math.exp(x))) for x in grid])
+        middles = 0.5 * (grid[1:] + grid[:-1])
+        exact = np.array([_none_nan(self.dew_temperature(math.exp(x))) for x in middles])
+        error = np.abs(exact - 0.5 * (values[1:] + values[:-1]))  # NaN where not found
+        return grid, values, 0.5 + 20.0 * error
 
     # ------------------------------------------------------------------ array flashes
     def states_PT(self, P, T) -> StateArray:
@@ -840,6 +888,9 @@ class Fluid:
         return T
 
     def _check_above_dew(self, P: float, T: float) -> None:
+        bounds = self._dew_bounds(P)
+        if bounds is not None and T > bounds[1]:
+            return  # clear of the dew line by more than the table's margin
         t_dew = self.dew_temperature(P)
         if t_dew is not None and T <= t_dew:
             raise PropertyError(
@@ -937,12 +988,30 @@ class Fluid:
                 return self._flash(CP.PT_INPUTS, P, T, f"P={P:.6g} Pa, T={T:.6g} K")
         return st
 
-    def _solve_T(self, P: float, target: float, prop: str, T_guess: float | None) -> State:
-        """Mixtures: find T with h(P, T) or s(P, T) equal to target (safeguarded Newton)."""
+    def _solve_T(self, P: float, target: float, prop: str, T_guess: float | None,
+                 exact_dew: bool = False) -> State:
+        """Mixtures: find T with h(P, T) or s(P, T) equal to target (safeguarded Newton).
+
+        The bracket starts at the dew point; in a batch the dew-line table's low bound serves,
+        and a root not clear of its high bound is solved again with the exact dew point.
+        """
         lo = self.T_min
+        bounds = None if exact_dew else self._dew_bounds(P)
+        if bounds is not None:
+            try:
+                st = self._solve_T_from(P, target, prop, T_guess, max(lo, bounds[0]))
+            except PropertyError:
+                st = None
+            if st is not None and st.T > bounds[1]:
+                return st
+            return self._solve_T(P, target, prop, T_guess, exact_dew=True)
         t_dew = self.dew_temperature(P)
-        if t_dew is not None:
-            lo = max(lo, t_dew)
+        return self._solve_T_from(P, target, prop, T_guess,
+                                  lo if t_dew is None else max(lo, t_dew))
+
+    def _solve_T_from(self, P: float, target: float, prop: str, T_guess: float | None,
+                      lo: float) -> State:
+        """Safeguarded Newton on T in [lo, T_max] for h(P, T) or s(P, T) equal to target."""
         hi = self.T_max
         value = (lambda st: st.h) if prop == "h" else (lambda st: st.s)
         slope = (lambda st: st.cp) if prop == "h" else (lambda st: st.cp / st.T)
@@ -975,6 +1044,10 @@ class Fluid:
                 f"{label} {target:.6g} at {P / 1e5:.6g} bar lies above the property model's "
                 f"temperature limit {hi:.6g} K for {self.name}")
         raise PropertyError(f"the {label} flash of {self.name} at {P / 1e5:.6g} bar did not converge")
+
+
+def _none_nan(value):
+    return float("nan") if value is None else value
 
 
 def _masked(states: StateArray, keep) -> StateArray:
