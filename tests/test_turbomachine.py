@@ -293,3 +293,36 @@ def test_no_pressure_change_is_refused():
     inlet = air.state(P=1e4, T=749.0)
     with pytest.raises(wb.errors.InputError, match="no pressure change"):
         wb.compressor(inlet, air.state(P=1e4 * (1 + 1e-15), T=886.5))
+
+
+def test_outlet_temperature_sensitivity_perfect_gas_closed_form():
+    # Closed form (perfect gas, constant cp): eta = (T2s - T1)/(T2 - T1), so
+    # |d eta / d T2| = eta / (T2 - T1).  Argon at 0.5-1.0 bar is a perfect gas to ~1e-3
+    # (cp = 5/2 R, kinetic theory).
+    argon = wb.Fluid("Argon")
+    inlet = argon.state(P=0.5e5, T=300.0)
+    hot = wb.compressor(inlet, argon.state(P=1.0e5, T=420.0))
+    assert hot.rated_from == "outlet"
+    assert hot.outlet_temperature_sensitivity == pytest.approx(
+        hot.isentropic_efficiency / (420.0 - 300.0), rel=2e-3)
+    assert hot.cautions == ()  # 120 K rise: 1 K is under one point
+    mild = wb.compressor(inlet, argon.state(P=0.52e5, T=306.0))
+    assert mild.outlet_temperature_sensitivity == pytest.approx(
+        mild.isentropic_efficiency / 6.0, rel=2e-3)
+    assert any("1 K" in note for note in mild.cautions)
+    predicted = wb.compressor(inlet, P_out=1.0e5, isentropic_efficiency=0.8)
+    assert predicted.rated_from == "efficiency"
+    assert math.isnan(predicted.outlet_temperature_sensitivity)
+
+
+def test_wet_expansion_carries_the_schultz_caution():
+    # Common practice: Schultz's method (ASME PTC 10) is for single-phase gases; a steam
+    # turbine with a wet exhaust (IF97, 40 bar 400 degC to 0.1 bar) must say so.
+    steam = wb.Fluid("Water", backend="IF97")
+    r = wb.turbine(steam.state(P=40e5, T=673.15), P_out=0.1e5, power=10e6, mass_flow=12.0)
+    assert r.rated_from == "power"
+    assert r.outlet.x is not None
+    assert any("Schultz" in note and "two-phase" in note for note in r.cautions)
+    dry = wb.turbine(steam.state(P=40e5, T=673.15), P_out=10e5, power=3e6, mass_flow=12.0)
+    assert dry.outlet.x is None and dry.isentropic_outlet.x is None
+    assert not any("Schultz" in note for note in dry.cautions)

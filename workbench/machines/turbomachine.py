@@ -106,6 +106,9 @@ class MachineResult:
         Total-to-static isentropic efficiency [-] (turbines; NaN for driven machines).
     isentropic_head : float
         |h2s - h1| on the chosen basis [J/kg].
+    rated_from : str
+        What fixed the outlet: ``"outlet"`` (a measured outlet state), ``"efficiency"`` or
+        ``"power"``.
     """
 
     kind: str
@@ -132,6 +135,7 @@ class MachineResult:
     isentropic_efficiency_total: float
     isentropic_efficiency_total_to_static: float
     isentropic_head: float
+    rated_from: str = "outlet"
     _given_polytropic: tuple = field(default=(), repr=False)
 
     # ---------------------------------------------------------------- derived
@@ -220,6 +224,46 @@ class MachineResult:
     def isentropic_exponent(self) -> float:
         """Isentropic volume exponent n_s = ln(P2/P1)/ln(v1/v2s) [-]."""
         return self._schultz.isentropic_exponent
+
+    @property
+    def outlet_temperature_sensitivity(self) -> float:
+        """Change of the isentropic efficiency per kelvin of outlet temperature [1/K].
+
+        For a rating from a measured outlet temperature: d(eta)/dT2 = -eta cp2 / (h2 - h1)
+        (compression; the magnitude is the same for an expansion).  NaN when the outlet is
+        two-phase or the outlet was not measured.
+        """
+        if self.rated_from != "outlet" or self.outlet.x is not None:
+            return math.nan
+        dh = self.outlet.h - self.inlet.h
+        return abs(self.isentropic_efficiency * self.outlet.cp / dh) if dh else math.nan
+
+    @property
+    def cautions(self) -> tuple[str, ...]:
+        """Plain-language cautions about how far the numbers can be trusted.
+
+        * A state in the two-phase region: Schultz's method and ASME PTC 10 assume a
+          single-phase gas; the path-integrated polytropic values are the ones to use.
+        * A rating from a measured outlet temperature where 1 K moves the efficiency by more
+          than one point (small temperature rise: low-ratio compressors, fans, pumps; common
+          practice is to rate such machines from measured power or with calibrated,
+          well-immersed thermometers).
+        """
+        notes = []
+        wet = [(name, st) for name, st in (("inlet", self.inlet), ("outlet", self.outlet),
+                                           ("isentropic outlet", self.isentropic_outlet))
+               if st.x is not None]
+        if wet:
+            where = ", ".join(f"{name} quality {st.x:.3f}" for name, st in wet)
+            notes.append(f"the process enters the two-phase region ({where}): Schultz's method "
+                         "assumes a single-phase gas; use the path-integrated polytropic values")
+        sensitivity = self.outlet_temperature_sensitivity
+        if math.isfinite(sensitivity) and sensitivity > 0.01:
+            rise = abs(self.outlet.T - self.inlet.T)
+            notes.append(f"the outlet temperature changes by only {rise:.3g} K: an error of 1 K "
+                         f"in it moves the efficiency by {100 * sensitivity:.2g} points; rate "
+                         "from measured power or use calibrated, well-immersed thermometers")
+        return tuple(notes)
 
     # ---------------------------------------------------------------- export
     def to_dict(self) -> dict:
@@ -415,6 +459,7 @@ def energy_balance(kind: str, inlet: State, outlet: State | None = None, *, P_ou
         return _velocity("outlet", v2, d2, m, rho)
 
     given_poly = ()
+    rated_outlet = outlet is not None
     if outlet is not None:
         V2 = out_velocity(outlet.rho)
     else:
@@ -497,6 +542,7 @@ def energy_balance(kind: str, inlet: State, outlet: State | None = None, *, P_ou
         kinetic_energy_change=dke, potential_energy_change=g_dz, specific_heat_loss=q,
         isentropic_efficiency_static=eff_static, isentropic_efficiency_total=eff_total,
         isentropic_efficiency_total_to_static=eff_ts, isentropic_head=head_s,
+        rated_from="outlet" if rated_outlet else ("power" if shaft is not None else "efficiency"),
         _given_polytropic=given_poly,
     )
 
