@@ -345,3 +345,37 @@ def test_dew_line_table_gives_the_exact_verdicts():
         assert gas.state_Ps(pressure * 1.5, s).T == pytest.approx(
             exact.state_Ps(pressure * 1.5, s).T, rel=1e-9)
     assert checked >= 5
+
+
+def test_dew_line_of_a_mixture_against_raoults_law():
+    # Raoult's law (ideal gas, ideal solution), common practice at low pressure:
+    # 1 = sum(y_i P / Psat_i(T)) at the dew point; pure-component vapour pressures from each
+    # component's own equation of state.  Agreement within 1 K at 0.2-0.5 bar.
+    import CoolProp.CoolProp as CP
+    from scipy.optimize import brentq
+
+    spec = {"Methane": 0.90, "Ethane": 0.07, "Propane": 0.03}
+    gas = wb.Fluid(spec)
+
+    def raoult(P):
+        def residual(T):
+            total = 0.0
+            for name, y in spec.items():
+                if T < CP.PropsSI("Tcrit", name):
+                    total += y * P / CP.PropsSI("P", "T", T, "Q", 0, name)
+            return total - 1.0
+        return brentq(residual, 100.0, 300.0)
+
+    for P in (0.2e5, 0.5e5):
+        assert gas.dew_temperature(P) == pytest.approx(raoult(P), abs=1.0)
+    line = gas.dew_line(30)
+    assert len(line) > 10 and wb.Fluid("Water").dew_line() == []
+    assert gas.saturation_curve(30) == line
+    temperatures = [st.T for st in line]
+    assert temperatures[:10] == sorted(temperatures[:10])  # rises with pressure at first
+    for st in line[::6]:
+        assert st.T == pytest.approx(gas.dew_temperature(st.P), rel=1e-12)
+        assert st.phase == "gas"
+        gas.state_PT(st.P, st.T + 0.5)  # just above the line: accepted
+        with pytest.raises(PropertyError, match="dew point"):
+            gas.state_PT(st.P, st.T - 0.5)

@@ -477,11 +477,12 @@ class Fluid:
         """The saturation dome: saturated-liquid states upwards, then saturated vapour down.
 
         Pressures are log-spaced from just above the triple point to 0.995 of the critical
-        pressure; pressures the model cannot resolve are left out.  Mixtures give an empty
-        list.  Cached per fluid object.
+        pressure; pressures the model cannot resolve are left out.  Mixtures give their dew
+        line instead (:meth:`dew_line`), the edge of the region they are supported in.
+        Cached per fluid object.
         """
         if self.is_mixture:
-            return []
+            return self.dew_line(points)
         cache = self.__dict__.setdefault("_curve_cache", {})
         if points not in cache:
             lo = max(self.P_triple * 1.01, 1.0)
@@ -496,6 +497,32 @@ class Fluid:
                 liquid.append(sl)
                 vapour.append(sv)
             cache[points] = liquid + vapour[::-1]
+        return list(cache[points])
+
+    def dew_line(self, points: int = 40) -> list[State]:
+        """Saturated-gas states along a mixture's dew line, low pressure first.
+
+        Pressures are log-spaced from 0.1 bar to 200 bar; the line ends at the first pressure
+        without a dew point (near the cricondenbar); points below the lowest temperature of a
+        component's model are left out.  Pure fluids give an empty list (their
+        dome is :meth:`saturation_curve`).  Cached per fluid object.
+        """
+        if not self.is_mixture:
+            return []
+        cache = self.__dict__.setdefault("_dew_line_cache", {})
+        if points not in cache:
+            line = []
+            for P in np.geomspace(1e4, 2e7, max(points, 2)):
+                T = self.dew_temperature(float(P))
+                if T is None or T < self.T_min:  # below the range of a component's model
+                    if line and T is None:
+                        break
+                    continue
+                try:  # the gas at its dew point (the flash is phase-specified as gas)
+                    line.append(self._flash(CP.PT_INPUTS, float(P), T, f"dew point at P={P:.6g} Pa"))
+                except PropertyError:
+                    break
+            cache[points] = line
         return list(cache[points])
 
     def isobar(self, P: float, s_low: float, s_high: float, points: int = 16) -> list:
