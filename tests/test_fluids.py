@@ -89,6 +89,8 @@ def test_fluid_pickles(natural_gas):
     again = pickle.loads(pickle.dumps(natural_gas))
     assert again == natural_gas
     assert again.state(P=5e6, T=300).h == pytest.approx(natural_gas.state(P=5e6, T=300).h)
+    # a worker receiving the fluid with every partition keeps one object and its caches
+    assert pickle.loads(pickle.dumps(natural_gas)) is again
 
 
 def test_quantities_accepted(water):

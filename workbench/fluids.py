@@ -1108,5 +1108,16 @@ def _pair_arrays(a, b):
     return a, b
 
 
+_REBUILT: dict = {}
+
+
 def _rebuild_fluid(spec, backend):
-    return Fluid(spec, backend=backend)
+    """Unpickle a fluid: one object per process and specification, so a worker that receives
+    the fluid with every partition keeps its caches (saturation states, dew-line table)."""
+    key = (repr(spec), backend)
+    fluid = _REBUILT.get(key)
+    if fluid is None:
+        if len(_REBUILT) > 32:
+            _REBUILT.clear()
+        fluid = _REBUILT[key] = Fluid(spec, backend=backend)
+    return fluid
