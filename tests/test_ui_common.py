@@ -133,3 +133,44 @@ def test_process_figure_holds_both_diagrams():
     assert list(fig.data[5].y) == pytest.approx([300.0, 350.0])
     assert list(fig.data[n + 5].y) == pytest.approx([26.85, 76.85])
     assert "kJ/kg" in fig.layout.yaxis.title.text and "°C" in fig.layout.yaxis2.title.text
+
+
+def relayout_keys_sent(fig, update):
+    """Layout key paths that ``update(fig)`` sends to the front end as deltas."""
+    sent = []
+    real_update, real_relayout = fig._send_update_msg, fig._send_relayout_msg
+
+    def capture_update(restyle_data, relayout_data, *args, **kwargs):
+        sent.extend(relayout_data)
+        return real_update(restyle_data, relayout_data, *args, **kwargs)
+
+    def capture_relayout(layout_data, *args, **kwargs):
+        sent.extend(layout_data)
+        return real_relayout(layout_data, *args, **kwargs)
+
+    fig._send_update_msg, fig._send_relayout_msg = capture_update, capture_relayout
+    update(fig)
+    return sent
+
+
+def no_parent_with_child(keys):
+    """plotly.js refuses a relayout that sets a parent and one of its children together
+    ("cannot set yaxis2.overlaying and a parent attribute simultaneously", seen in
+    Chromium in this project): no key may be a dotted prefix of another."""
+    return not any(a != b and b.startswith(a + ".") for a in keys for b in keys)
+
+
+def test_first_sweep_into_an_empty_figure_sends_no_parent_and_child_together():
+    fig = charts.make_sweep_figure()
+    keys = relayout_keys_sent(fig, lambda f: charts.update_sweep_figure(
+        f, [1.0, 2.0], {"a [kW]": [1.0, 2.0], "b [°C]": [3.0, 4.0]}, "x [bar]"))
+    assert "yaxis2.title.text" in keys and no_parent_with_child(keys), keys
+
+
+def test_first_process_chart_draw_sends_no_parent_and_child_together():
+    fig = charts.make_process_figure()
+    one = (np.array([1000.0, 1100.0]), np.array([3.0e5, 3.5e5]), np.array([300.0, 350.0]))
+    points = {key: one for key in ("dome", "inlet isobar", "outlet isobar", "path",
+                                   "isentropic", "ends", "iso end")}
+    keys = relayout_keys_sent(fig, lambda f: charts.update_process_figure(f, points))
+    assert "xaxis2.title.text" in keys and no_parent_with_child(keys), keys

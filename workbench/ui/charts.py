@@ -332,8 +332,14 @@ def update_process_figures(figures, points, system="bar, degC"):
 def make_sweep_figure(width: int = 700, height: int = 340):
     """An empty FigureWidget for sweep results."""
     fig = new_figure()
+    # every layout key a sweep changes exists from the start: a front end refuses a
+    # relayout that sets a parent (yaxis2) and its children (yaxis2.overlaying) at once
     fig.update_layout(width=width, height=height, margin=dict(l=60, r=60, t=30, b=90),
-                      template="simple_white", title=dict(text="sweep", font=dict(size=13)))
+                      template="simple_white", title=dict(text="sweep", font=dict(size=13)),
+                      xaxis=dict(title=dict(text="")), yaxis=dict(title=dict(text="")),
+                      yaxis2=dict(overlaying="y", side="right", visible=False,
+                                  title=dict(text="")),
+                      legend=dict(orientation="h", y=-0.3))
     sync_figure(fig)
     return fig
 
@@ -368,22 +374,23 @@ def update_sweep_figure(fig, x, columns: dict, x_title: str):
     """
     names = list(columns)
     x = [float(v) for v in x]
+    # traces are added and removed first, each its own message (a front end applies an
+    # added trace reliably only outside a batch); then values and layout in one batch
+    if len(fig.data) > len(names):
+        fig.data = fig.data[:len(names)]
+    for i in range(len(fig.data), len(names)):
+        fig.add_scatter(x=[], y=[], name=names[i], mode="lines+markers", connectgaps=False,
+                        yaxis="y" if i == 0 else "y2")
     with fig.batch_update():
-        if len(fig.data) > len(names):
-            fig.data = fig.data[:len(names)]
         for i, (name, values) in enumerate(columns.items()):
-            y = [float(v) for v in values]
-            axis = "y" if i == 0 else "y2"
-            if i < len(fig.data):
-                trace = fig.data[i]
-                trace.x, trace.y, trace.name, trace.yaxis = x, y, name, axis
-            else:
-                fig.add_scatter(x=x, y=y, name=name, mode="lines+markers",
-                                connectgaps=False, yaxis=axis)
-        fig.update_layout(
-            xaxis=dict(title=dict(text=x_title)),
-            yaxis=dict(title=dict(text=names[0] if names else "")),
-            yaxis2=dict(overlaying="y", side="right", visible=len(names) > 1,
-                        title=dict(text=", ".join(names[1:]))),
-            legend=dict(orientation="h", y=-0.3))
+            trace = fig.data[i]
+            trace.x, trace.y = x, [float(v) for v in values]
+            trace.name, trace.yaxis = name, "y" if i == 0 else "y2"
+        layout = fig.layout
+        layout.xaxis.title.text = x_title
+        layout.yaxis.title.text = names[0] if names else ""
+        layout.yaxis2.overlaying, layout.yaxis2.side = "y", "right"
+        layout.yaxis2.visible = len(names) > 1
+        layout.yaxis2.title.text = ", ".join(names[1:])
+        layout.legend.orientation, layout.legend.y = "h", -0.3
     sync_figure(fig)
