@@ -491,3 +491,27 @@ def test_sweep_figure_is_updated_in_place(panel):
     assert fig.data[1].yaxis == "y2"
     panel.run_sweep("outlet-pressure", 30.0, 70.0, 5, ["power"])
     assert panel.sweep_figure is fig and len(fig.data) == 1 and len(fig.data[0].y) == 5
+
+
+def test_mixture_chart_draws_the_dew_line_and_steam_the_dome():
+    # The first trace is the edge of the supported region: a mixture's dew line (the gas is
+    # refused below it), a pure fluid's saturation dome; points from the calculation layer.
+    gas_panel = MachinePanel(case="compressor-demo")
+    gas_panel.show_charts()
+    fig = gas_panel.figure
+    n = len(mp.charts.TRACE_NAMES)
+    assert fig.data[0].name == "dew line" and fig.data[n].name == "dew line"
+    line = gas_panel.result.inlet.fluid.dew_line(40)
+    assert len(line) > 10
+    assert list(fig.data[0].x) == pytest.approx([st.s / 1e3 for st in line], rel=1e-9)
+    steam_panel = MachinePanel(case="turbine-demo")
+    steam_panel.show_charts()
+    assert steam_panel.figure.data[0].name == "saturation dome"
+
+
+def test_wet_expansion_caution_reaches_the_message_area():
+    # Common practice: Schultz's method is for single-phase gases; the turbine demo's exhaust
+    # is wet, so the panel must say which polytropic values to use.
+    p = MachinePanel(case="turbine-demo")
+    assert p.result.outlet.x is not None
+    assert "Schultz" in p.message and "two-phase" in p.message

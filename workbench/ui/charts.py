@@ -51,7 +51,7 @@ def _arrays(states):
 
 
 def dome_points(fluid, points: int = 40):
-    """Saturation dome of a pure fluid as ``(s, h, T)`` arrays (empty for mixtures)."""
+    """Saturation dome of a pure fluid, or a mixture's dew line, as ``(s, h, T)`` arrays."""
     return _arrays(fluid.saturation_curve(points))
 
 
@@ -223,6 +223,7 @@ def update_process_figure(fig, points, system="bar, degC"):
     n = len(TRACE_NAMES)
     with fig.batch_update():
         for panel, (traces, x_range, y_range) in enumerate(_process_xy(points, system)):
+            fig.data[panel * n].name = points.get("dome label", TRACE_NAMES[0])
             for i, (x, y) in enumerate(traces):
                 fig.data[panel * n + i].x = x
                 fig.data[panel * n + i].y = y
@@ -265,6 +266,8 @@ def process_points(result, path_steps: int = 12):
         "isentropic": (np.array([a.s, iso.s]), np.array([a.h, iso.h]), np.array([a.T, iso.T])),
         "ends": (np.array([a.s, b.s]), np.array([a.h, b.h]), np.array([a.T, b.T])),
         "iso end": (np.array([iso.s]), np.array([iso.h]), np.array([iso.T])),
+        # legend name of the first trace: a mixture is supported above its dew line only
+        "dome label": "dew line" if fluid.is_mixture else TRACE_NAMES[0],
     }
     return pts
 
@@ -308,6 +311,7 @@ def update_process_figures(figures, points, system="bar, degC"):
                              (figures[1], "temperature", 2)):
         focus_x, focus_y = [], []
         with fig.batch_update():
+            fig.data[0].name = points.get("dome label", TRACE_NAMES[0])
             for i, key in enumerate(order):
                 s, h, T = points[key]
                 x = from_si(system, np.asarray(s, dtype=float), "specific_entropy")

@@ -1018,6 +1018,8 @@ class MachinePanel(widgets.VBox):
         text = f"calculated: {result.kind}, outlet fixed by {mode}"
         if result.outlet.x is not None:
             text += f"; the outlet is wet (quality {result.outlet.x:.4f})"
+        for caution in result.cautions:
+            text += f"; caution: {caution}"
         return text
 
     def _fail(self, exc):
