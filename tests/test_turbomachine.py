@@ -305,7 +305,7 @@ def test_outlet_temperature_sensitivity_perfect_gas_closed_form():
     assert hot.rated_from == "outlet"
     assert hot.outlet_temperature_sensitivity == pytest.approx(
         hot.isentropic_efficiency / (420.0 - 300.0), rel=2e-3)
-    assert hot.cautions == ()  # 120 K rise: 1 K is under one point
+    assert hot.cautions == ()  # 120 K rise: 1 K is under one point (caution above two)
     mild = wb.compressor(inlet, argon.state(P=0.52e5, T=306.0))
     assert mild.outlet_temperature_sensitivity == pytest.approx(
         mild.isentropic_efficiency / 6.0, rel=2e-3)

@@ -245,7 +245,7 @@ class MachineResult:
         * A state in the two-phase region: Schultz's method and ASME PTC 10 assume a
           single-phase gas; the path-integrated polytropic values are the ones to use.
         * A rating from a measured outlet temperature where 1 K moves the efficiency by more
-          than one point (small temperature rise: low-ratio compressors, fans, pumps; common
+          than two points (small temperature rise: low-ratio compressors, fans, pumps; common
           practice is to rate such machines from measured power or with calibrated,
           well-immersed thermometers).
         """
@@ -258,7 +258,7 @@ class MachineResult:
             notes.append(f"the process enters the two-phase region ({where}): Schultz's method "
                          "assumes a single-phase gas; use the path-integrated polytropic values")
         sensitivity = self.outlet_temperature_sensitivity
-        if math.isfinite(sensitivity) and sensitivity > 0.01:
+        if math.isfinite(sensitivity) and sensitivity > 0.02:
             rise = abs(self.outlet.T - self.inlet.T)
             notes.append(f"the outlet temperature changes by only {rise:.3g} K: an error of 1 K "
                          f"in it moves the efficiency by {100 * sensitivity:.2g} points; rate "
