@@ -39,8 +39,8 @@ def test_hooks_and_caution(panel):
         assert f"wb-input-{name}" in classes
     for name in list(RESULTS) + ["stations"]:
         assert f"wb-result-{name}" in classes
-    assert "wb-result-power-bars" in panel.power_bars._dom_classes
-    assert "wb-result-hs-chart" in panel.hs_chart._dom_classes
+    assert "wb-result-power-bars" in panel.chart._dom_classes
+    assert "wb-result-hs-chart" in panel.chart._dom_classes
     assert "wb-message" in classes
     assert wb.SAFETY_CAUTION.split(".")[0] in panel.caution.value
     panel.scenario.value = "extraction turbine"
@@ -68,8 +68,9 @@ def test_two_stage_optimum_shown_at_geometric_mean(panel):
                                     stage_ratios="optimal")
     assert number(panel.results["total-power"].shown) == pytest.approx(
         direct.total_power / 1e3, rel=1e-4)
-    assert len(panel.power_bars.data[0].y) == 2
-    assert len(panel.hs_chart.data[0].x) == 4   # inlet, stage 1, intercooler, stage 2
+    bars, line, _branches = panel.chart.data
+    assert len(bars.y) == 2
+    assert len(line.x) == 4   # inlet, stage 1, intercooler, stage 2
 
 
 def test_turbine_exhaust_matches_if97(panel):
@@ -91,7 +92,8 @@ def test_unit_switch_keeps_si_values(panel):
     # 1 psi = 6894.757 Pa, 1 hp (mechanical) = 745.6999 W (NIST SP 811).
     kw = number(panel.results["total-power"].shown)
     panel.units.value = "psig, degF"
-    assert panel.entries["discharge-pressure"].value == pytest.approx(9e5 / 6894.757, rel=1e-6)
+    # shown to five significant figures
+    assert panel.entries["discharge-pressure"].value == pytest.approx(9e5 / 6894.757, rel=5e-5)
     assert number(panel.results["total-power"].shown) == pytest.approx(kw * 1e3 / 745.6999,
                                                                       rel=1e-4)
     assert panel.si("discharge-pressure") == pytest.approx(9e5)
@@ -119,5 +121,18 @@ def test_turbine_stage_ratios_quoted_high_over_low(panel):
     assert lp == pytest.approx(12.0 / 4.0, rel=1e-3)
     # The h-s chart follows the stations: five main-line points (inlet and the outlets of the
     # valve, the HP section, the extraction and the LP section) and the extraction branch.
-    assert len(panel.hs_chart.data[0].x) == 5 and len(panel.hs_chart.data[1].x) == 1
-    assert list(panel.power_bars.data[0].x) == ["HP section", "LP section"]
+    bars, line, branches = panel.chart.data
+    assert len(line.x) == 5 and len(branches.x) == 1
+    assert list(bars.x) == ["HP section", "LP section"]
+
+
+def test_unit_switch_shows_five_figures_and_keeps_the_result(panel):
+    # NIST SP 811: 1 bar = 14.503774 psi; the entry shows five significant figures while the
+    # train keeps the exact SI inputs, so the result does not move on a round trip.
+    power = panel.result.total_power
+    panel.units.value = "US customary"
+    assert panel.entries["suction-pressure"].value == pytest.approx(14.504, abs=1e-9)
+    assert panel.result.total_power == pytest.approx(power, rel=1e-12)
+    panel.units.value = "bar, degC"
+    assert panel.entries["suction-pressure"].value == pytest.approx(1.0, abs=1e-12)
+    assert panel.result.total_power == pytest.approx(power, rel=1e-12)

@@ -123,6 +123,7 @@ class TrainPanel(widgets.VBox):
         self.units = unit_switch(system)
         self.units.observe(self._units_changed, names="value")
         self.scenario = choice("scenario", "train", SCENARIOS, scenario)
+        self.scenario.layout.width = "380px"  # room for "intercooled compressor"
         self.scenario.observe(lambda _: self._scenario_changed(), names="value")
         self.gas = choice("gas", "gas", GASES, "Air")
         self.stages = choice("stages", "stages", (1, 2, 3, 4, 5, 6), 3)
@@ -134,7 +135,7 @@ class TrainPanel(widgets.VBox):
         for name, (label, kind, default) in _ALL_ENTRIES.items():
             self.entries[name] = NumberEntry(name, label, _entry_kind(kind), default,
                                              on_change=lambda _: self.recalculate(),
-                                             system=system)
+                                             system=system, significant=5)
             self.entries[name].unit.value = _pretty(system, kind)
             self.entries[name].label.layout.width = "210px"
             self.entries[name].layout.width = "400px"
@@ -148,23 +149,34 @@ class TrainPanel(widgets.VBox):
         self.stations = widgets.HTML("")
         self.stations.add_class("wb-result-stations")
         self.message = message_area()
-        self.power_bars = go.FigureWidget(
-            data=[go.Bar(x=[], y=[], name="shaft power")],
-            layout=dict(title="Shaft power of each stage", height=300, width=460,
-                        margin=dict(l=60, r=10, t=40, b=40)))
-        self.power_bars.add_class("wb-result-power-bars")
-        self.hs_chart = go.FigureWidget(
-            data=[go.Scatter(x=[], y=[], mode="lines+markers+text", name="main line",
-                             textposition="top center"),
-                  go.Scatter(x=[], y=[], mode="markers", name="branches",
-                             marker=dict(symbol="diamond", size=10))],
-            layout=dict(title="All stations on the h-s chart", height=380, width=560,
-                        margin=dict(l=70, r=10, t=40, b=50)))
-        self.hs_chart.add_class("wb-result-hs-chart")
+        # One FigureWidget for both charts (each widget costs page-load time): the shaft
+        # power of each stage (left) and every station on the h-s chart (right).
+        self.chart = go.FigureWidget(
+            data=[go.Bar(x=[], y=[], name="shaft power", marker=dict(color="#4a7fb0"),
+                         xaxis="x", yaxis="y", showlegend=False),
+                  go.Scatter(x=[], y=[], mode="lines+markers+text", name="main line",
+                             textposition="top center", line=dict(color="#222222", width=1.5),
+                             marker=dict(color="#222222", size=7), xaxis="x2", yaxis="y2"),
+                  go.Scatter(x=[], y=[], mode="markers", name="branches", xaxis="x2",
+                             yaxis="y2", marker=dict(symbol="diamond", size=10,
+                                                     color="#b0704a"))],
+            layout=dict(
+                height=380, width=1040, margin=dict(l=70, r=10, t=40, b=50),
+                template="simple_white",
+                xaxis=dict(domain=[0.0, 0.36]), yaxis=dict(anchor="x"),
+                xaxis2=dict(domain=[0.46, 1.0]), yaxis2=dict(anchor="x2"),
+                legend=dict(orientation="h", y=-0.18, x=0.46, font=dict(size=10)),
+                annotations=[dict(text=t, x=x, y=1.02, xref="paper", yref="paper",
+                                  xanchor="center", yanchor="bottom", showarrow=False,
+                                  font=dict(size=13))
+                             for t, x in (("shaft power of each stage", 0.18),
+                                          ("every station on the h-s chart", 0.73))]))
+        self.chart.add_class("wb-result-power-bars")
+        self.chart.add_class("wb-result-hs-chart")
         super().__init__([
             self.title, self.caution, widgets.HBox([self.scenario, self.units]),
             widgets.HBox([self.inputs, widgets.VBox(list(self.results.values()))]),
-            self.message, self.stations, widgets.HBox([self.power_bars, self.hs_chart]),
+            self.message, self.stations, self.chart,
         ])
         self._scenario_changed()
 
@@ -268,19 +280,16 @@ class TrainPanel(widgets.VBox):
         s_unit = unit_label(self.system, "specific_entropy")
         main = [s for s in train.stations if s.role == "main"]
         side = [s for s in train.stations if s.role != "main"]
-        with self.power_bars.batch_update():
-            self.power_bars.data[0].x = names
-            self.power_bars.data[0].y = powers
-            self.power_bars.layout.yaxis.title = f"shaft power [{p_unit}]"
-        with self.hs_chart.batch_update():
-            line, branches = self.hs_chart.data
+        with self.chart.batch_update():
+            bars, line, branches = self.chart.data
+            bars.x, bars.y = names, powers
+            self.chart.layout.yaxis.title = f"shaft power [{p_unit}]"
             line.x, line.y = self._hs_points(main)
             line.text = [str(i) for i in range(len(main))]
             branches.x, branches.y = self._hs_points(side)
-            self.hs_chart.layout.xaxis.title = f"s [{s_unit}]"
-            self.hs_chart.layout.yaxis.title = f"h [{h_unit}]"
-        sync_figure(self.power_bars)
-        sync_figure(self.hs_chart)
+            self.chart.layout.xaxis2.title = f"specific entropy [{s_unit}]"
+            self.chart.layout.yaxis2.title = f"specific enthalpy [{h_unit}]"
+        sync_figure(self.chart)
 
     def _station_table(self, train) -> str:
         sys_ = self.system
