@@ -268,7 +268,8 @@ def test_whole_array_path_equals_single_point_api(machine, backend, mode, monkey
     monkeypatch.setattr(batch, "energy_balance", counted)
     out = evaluate(frame, machine, fluid, mode=mode,
                    results=("power", "shaft_power", "isentropic_efficiency", "isentropic_head",
-                            "outlet_temperature", "outlet_quality", "inlet_volume_flow"))
+                            "outlet_temperature", "outlet_quality", "inlet_volume_flow",
+                            "outlet_temperature_sensitivity"))
     assert len(out) == n
     # only the rows the arrays could not settle went through the single-point API
     assert 0 < len(calls) == (out["status"] != "ok").sum()
@@ -288,6 +289,12 @@ def test_whole_array_path_equals_single_point_api(machine, backend, mode, monkey
                               ("outlet_temperature", single.outlet.T),
                               ("inlet_volume_flow", single.inlet_volume_flow)):
             assert out.loc[i, column] == pytest.approx(value, rel=1e-10), column
+        sensitivity = single.outlet_temperature_sensitivity
+        if np.isnan(sensitivity):
+            assert np.isnan(out.loc[i, "outlet_temperature_sensitivity"])
+        else:
+            assert out.loc[i, "outlet_temperature_sensitivity"] == pytest.approx(sensitivity,
+                                                                                 rel=1e-9)
         if single.outlet.x is None:
             assert np.isnan(out.loc[i, "outlet_quality"])
         else:

@@ -63,6 +63,8 @@ RESULTS = {
     "mass_flow": ("kg/s", lambda r: r.mass_flow),
     "inlet_volume_flow": ("m^3/s", lambda r: r.inlet_volume_flow),
     "pump_head": ("m", lambda r: r.isentropic_head / STANDARD_GRAVITY),
+    # efficiency change per kelvin of measured outlet temperature (rows rated from it)
+    "outlet_temperature_sensitivity": ("1/K", lambda r: r.outlet_temperature_sensitivity),
 }
 
 #: Results computed when the caller does not choose (all cheap: no path integration).
@@ -93,7 +95,8 @@ _LABEL = {
 #: Results the whole-array path computes (pure fluids); others go row by row.
 ARRAY_RESULTS = ("power", "shaft_power", "specific_work", "isentropic_efficiency",
                  "isentropic_head", "pressure_ratio", "outlet_temperature", "outlet_quality",
-                 "mass_flow", "inlet_volume_flow", "pump_head")
+                 "mass_flow", "inlet_volume_flow", "pump_head",
+                 "outlet_temperature_sensitivity")
 
 
 def _evaluate_arrays(machine, fluid, mode, mechanical_efficiency, names, p1, t1, p2, second,
@@ -154,6 +157,9 @@ def _evaluate_arrays(machine, fluid, mode, mechanical_efficiency, names, p1, t1,
             "mass_flow": m * np.ones(len(p1)),
             "inlet_volume_flow": m / inlet.rho,
             "pump_head": head / STANDARD_GRAVITY,
+            # d(eta)/dT2 = -eta cp2 / (h2 - h1), single-phase outlet, rated from its temperature
+            "outlet_temperature_sensitivity": (np.abs(eta * outlet.cp / dh) if mode == "outlet"
+                                               else np.full(len(p1), np.nan)),
         }
     return np.column_stack([columns[name] for name in names]), ok
 
