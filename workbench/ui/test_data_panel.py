@@ -23,6 +23,12 @@ from memory): +-1 % of the file's median reading for pressures (absolute), +-2 %
 power, +-0.5 % for speed, +-1 K for temperatures, over a window of 5 rows (5 minutes of
 one-minute scans).  Set the limits of the test code and contract in force.
 
+Setup files: the whole setup (column map and units, steady-state window and tolerances,
+machine, fluid, property model, ambient pressure, mechanical efficiency, instrument
+uncertainties, design point) is saved as plain JSON with SI values and loaded back onto the
+next file of the same logger export (:mod:`workbench.ui.test_setup`); a setup that does not
+fit the loaded file is refused with a message and the panel keeps its state.
+
 CSS hooks: ``wb-input-<name>`` on every entry, ``wb-result-<name>`` on every result,
 ``wb-message`` on the message area, ``wb-caution`` on the caution banner; table rows are
 ``wb-row-ok`` / ``wb-row-flagged`` and steady cells ``wb-steady-yes`` / ``wb-steady-no``.
@@ -55,10 +61,19 @@ from ..fieldtest import (
     readings_from_frame,
     steady_state_flags,
 )
-from ..fieldtest.readers import READING_KINDS, convert_values, parse_unit
+from ..fieldtest.readers import READING_KINDS, convert_values
 from ..fluids import Fluid
+from . import test_setup
 from .charts import figure_view, new_figure, refresh_view, sync_figure
 from .common import NumberEntry, caution_banner, message_area
+from .test_setup import (
+    MACHINES,
+    PROPERTY_MODELS,
+    UNIT_CHOICES,
+    difference_from_si,
+    difference_to_si,
+    tolerance_unit,
+)
 
 #: Demo file of the invented booster compressor (see its generator in tests/data).
 DEMO_FILE = pathlib.Path(__file__).resolve().parents[1] / "data" / "booster_compressor_readings.csv"
@@ -74,14 +89,6 @@ DEMO_MAP = {
 }
 
 NONE = "(not measured)"
-UNIT_CHOICES = {
-    "pressure": ["bar(g)", "bar(a)", "kPa(g)", "kPa", "MPa", "psig", "psia", "Pa"],
-    "temperature": ["degC", "K", "degF"],
-    "mass_flow": ["kg/s", "kg/h", "t/h", "lb/h"],
-    "volume_flow": ["m3/h", "m3/s", "Sm3/h", "ft3/min"],
-    "power": ["kW", "MW", "W", "hp"],
-    "speed": ["rpm"],
-}
 _LABELS = {
     "inlet_pressure": "Inlet pressure", "inlet_temperature": "Inlet temperature",
     "outlet_pressure": "Outlet pressure", "outlet_temperature": "Outlet temperature",
@@ -151,36 +158,6 @@ def _read_table(name: str, content: bytes) -> pd.DataFrame:
         raise WorkbenchError(f"file {name!r} could not be read as a CSV or Excel table") from None
     raw.columns = [str(c).strip() for c in raw.columns]
     return raw
-
-
-def tolerance_unit(unit: str, kind: str) -> str:
-    """Unit of a difference of readings taken in ``unit`` (``bar(g)`` -> ``bar``)."""
-    if kind == "pressure":
-        text = parse_unit(unit, kind)[0]
-    else:
-        text = unit
-    return (text.replace("degC", "°C").replace("degF", "°F").replace("m3", "m³")
-            .replace("ft3", "ft³"))
-
-
-def difference_to_si(value: float, unit: str, kind: str, name: str) -> float:
-    """A difference of two readings (a tolerance) given in ``unit``, in SI units.
-
-    Parameters
-    ----------
-    value : float
-        The difference in the reading's unit (gauge and absolute pressures alike).
-    unit, kind, name : str
-        Unit text, kind of quantity and reading name, as for
-        :func:`workbench.fieldtest.readers.convert_values`.
-
-    Returns
-    -------
-    float
-        The difference in SI units [Pa, K, kg/s, m^3/s, W; rev/min for speed].
-    """
-    zero, shifted = convert_values([0.0, float(value)], unit, kind, name)
-    return float(shifted - zero)
 
 
 def _nice(value: float) -> float:
@@ -284,6 +261,7 @@ class FieldDataPanel(widgets.VBox):
         self.steady_used: tuple[int, dict] | None = None
         self.file_name = file_name or ""
         self._quiet = False
+        self._loading_setup = False
         self._tolerance_edited: set[str] = set()
 
         self.caution = caution_banner(SAFETY_CAUTION)
@@ -292,13 +270,12 @@ class FieldDataPanel(widgets.VBox):
                                          description="Readings file")
         self.upload.add_class("wb-input-file")
         self.upload.observe(self._uploaded, names="value")
-        self.machine = self._dropdown("machine", "", ["compressor", "turbine", "pump", "fan"],
-                                      machine, "150px", "0px")
+        self.machine = self._dropdown("machine", "", MACHINES, machine, "150px", "0px")
         self.fluid = widgets.Text(value=fluid, description="Fluid",
                                   layout=widgets.Layout(width="760px"),
                                   style={"description_width": "170px"})
         self.fluid.add_class("wb-input-fluid")
-        self.backend = self._dropdown("backend", "", ["HEOS", "IF97"], backend, "150px", "0px")
+        self.backend = self._dropdown("backend", "", PROPERTY_MODELS, backend, "150px", "0px")
         self.ambient = NumberEntry("ambient-pressure", "Ambient pressure", "absolute_pressure",
                                    ambient_pressure, system="bar, degC")
         self.mech = NumberEntry("mechanical-efficiency", "Mechanical efficiency", "percent",
@@ -403,9 +380,31 @@ class FieldDataPanel(widgets.VBox):
                 "speed, ±1 K for temperatures; use the limits of the test code and contract "
                 "in force.</div>", layout=widgets.Layout(width="620px", margin="0 0 0 16px"))],
                 layout=widgets.Layout(align_items="center", margin="6px 0 0 0"))])
-        self.setup = widgets.Tab([columns_box, machine_box])
+        self.setup_upload = widgets.FileUpload(accept=".json", multiple=False,
+                                               description="Load setup")
+        self.setup_upload.add_class("wb-input-setup-upload")
+        self.setup_upload.observe(self._setup_uploaded, names="value")
+        self.setup_save = widgets.Button(description="Prepare setup download",
+                                         layout=widgets.Layout(width="200px"))
+        self.setup_save.add_class("wb-input-setup-save")
+        self.setup_save.on_click(lambda _b: self._refresh_setup_link())
+        self.setup_link = widgets.HTML("")
+        self.setup_link.add_class("wb-result-setup-link")
+        setup_box = widgets.VBox([
+            widgets.HTML("<div class='wb-note'>Save the whole setup of this page (column map "
+                         "and units, steady-state window and tolerances, machine, fluid, "
+                         "ambient pressure, instrument uncertainties, design point) as a JSON "
+                         "file with SI values, and load it onto the next file of the same "
+                         "logger export. A setup is checked against the loaded file before "
+                         "anything changes; the results are evaluated again.</div>",
+                         layout=widgets.Layout(width="760px")),
+            widgets.HBox([self.setup_upload]),
+            widgets.HBox([self.setup_save, self.setup_link],
+                         layout=widgets.Layout(align_items="center"))])
+        self.setup = widgets.Tab([columns_box, machine_box, setup_box])
         self.setup.set_title(0, "Columns")
         self.setup.set_title(1, "Machine, design")
+        self.setup.set_title(2, "Setup file")
         self.setup.add_class("wb-tabs")
         super().__init__([
             widgets.HTML(f"<style>{_CSS}</style>"), header, self.caution, self.setup,
@@ -526,7 +525,7 @@ class FieldDataPanel(widgets.VBox):
         return _nice(STEADY_DEFAULTS[kind] * float(np.median(np.abs(si))) / per_unit)
 
     def _tolerance_typed(self, name: str):
-        if self._quiet:
+        if self._quiet or self._loading_setup:
             return
         self._tolerance_edited.add(name)
         self._steady_changed()
@@ -562,7 +561,7 @@ class FieldDataPanel(widgets.VBox):
 
     def _steady_changed(self):
         """A window or tolerance changed: flag the last readings again (no re-evaluation)."""
-        if self.readings is None:
+        if self.readings is None or self._loading_setup:
             return
         try:
             flags, used = self._steady_flags(self.readings)
@@ -576,11 +575,14 @@ class FieldDataPanel(widgets.VBox):
         self._show()
 
     # ------------------------------------------------------------------ evaluation
-    def evaluate(self):
-        """Convert, evaluate, propagate, flag and compare; show the results or a message."""
+    def evaluate(self) -> bool:
+        """Convert, evaluate, propagate, flag and compare; show the results or a message.
+
+        Returns True when the results were computed and shown.
+        """
         if self.raw is None:
             self._fail("load a readings file first")
-            return
+            return False
         try:
             cmap, units = self.column_map()
             fluid = parse_fluid(self.fluid.value, self.backend.value)
@@ -598,15 +600,16 @@ class FieldDataPanel(widgets.VBox):
             uncertainty = self._uncertainty(readings, results, fluid)
         except WorkbenchError as exc:
             self._fail(str(exc))
-            return
+            return False
         except Exception as exc:  # noqa: BLE001 - a callback never raises into the page
             self._fail(f"the evaluation failed ({type(exc).__name__}): check the column map, "
                        "the units and the fluid")
-            return
+            return False
         self.readings, self.results = readings, results
         self.deviation, self.uncertainty = deviation, uncertainty
         self.steady, self.steady_used = steady, used
         self._show()
+        return True
 
     def _design(self) -> DesignPoint:
         def given(entry):
@@ -653,6 +656,168 @@ class FieldDataPanel(widgets.VBox):
         return pd.DataFrame(rows, columns=["row", "U95_isentropic_efficiency",
                                            "U95_shaft_power", "dominant_efficiency",
                                            "dominant_shaft_power"])
+
+    # ------------------------------------------------------------------ setup files
+    def to_setup(self) -> dict:
+        """The whole setup of the panel as a setup dict (SI values; see
+        :mod:`workbench.ui.test_setup`).
+
+        Raises
+        ------
+        InputError
+            If the steady-state window or a tolerance is not valid (see
+            :meth:`steady_settings`).
+        """
+        window, tolerances = self.steady_settings()
+        cmap, units = self.column_map()
+        design = self._design()
+        return test_setup.make_setup(
+            machine=self.machine.value, fluid=self.fluid.value,
+            property_model=self.backend.value, ambient_pressure=self.ambient.si,
+            mechanical_efficiency=self.mech.si,
+            columns={name: (cmap[name], units[name], tolerances[name]) for name in cmap},
+            steady_window=window,
+            uncertainty={"pressure_fraction": self.u_pressure.si,
+                         "temperature_K": self.u_temperature.si,
+                         "flow_fraction": self.u_flow.si, "power_fraction": self.u_power.si},
+            design={"isentropic_efficiency": design.isentropic_efficiency,
+                    "shaft_power_W": design.power,
+                    "inlet_volume_flow_m3_per_s": design.volume_flow,
+                    "speed_rpm": design.speed},
+            readings_file=self.file_name)
+
+    def setup_json(self) -> str:
+        """JSON text of :meth:`to_setup`."""
+        return test_setup.setup_json(self.to_setup())
+
+    def load_setup(self, source, name: str = "") -> bool:
+        """Load a setup (dict, JSON text or bytes, or path) onto the loaded readings file.
+
+        The setup is validated first, against the loaded file's columns, and its fluid and
+        column map are tried; if anything is wrong the message area says so (naming the key)
+        and nothing in the panel changes.  Otherwise every entry takes the setup's value and
+        the rows are evaluated again.  Never raises.
+
+        Parameters
+        ----------
+        source : dict, str, bytes or pathlib.Path
+            The setup.
+        name : str
+            Name of the setup file, for the message.
+
+        Returns
+        -------
+        bool
+            True when the setup was loaded (the evaluation's outcome is in the message area).
+        """
+        try:
+            if self.raw is None:
+                raise WorkbenchError("load the readings file first: a setup maps its columns")
+            setup = test_setup.read_setup(source, list(self.raw.columns), self.file_name)
+            columns = setup["columns"]
+            # try what validation alone cannot settle: the fluid and the conversion
+            parse_fluid(setup["fluid"], setup["property_model"])
+            readings_from_frame(self.raw, {n: c["column"] for n, c in columns.items()},
+                                {n: c["unit"] for n, c in columns.items()},
+                                ambient_pressure=setup["ambient_pressure_Pa"])
+        except WorkbenchError as exc:  # the panel and its results stay as they were
+            self._say(f"setup not loaded: {exc}", error=True)
+            return False
+        except Exception as exc:  # noqa: BLE001 - a callback never raises into the page
+            self._say(f"setup not loaded: it could not be read ({type(exc).__name__})",
+                      error=True)
+            return False
+        try:
+            self._apply_setup(setup)
+        except Exception as exc:  # noqa: BLE001 - a callback never raises into the page
+            self._fail(f"the setup was only partly applied ({type(exc).__name__}: {exc}); "
+                       "check the entries")
+            return False
+        made_with = setup["readings_file"]
+        note = (f" (made with {made_with})" if made_with and made_with != self.file_name
+                else "")
+        loaded = f"Setup {name + ' ' if name else ''}loaded{note}."
+        if self.evaluate():
+            rest = self.message.value
+            self._say(loaded)
+            self.message.value += rest
+        else:
+            self.message.value = (f"<div style='color:#333333;padding:2px 0'>"
+                                  f"{html.escape(loaded)}</div>" + self.message.value)
+        return True
+
+    def _apply_setup(self, setup: dict):
+        """Put a validated setup into the entries (no evaluation, no observers' re-flagging)."""
+        self._loading_setup = True
+        try:
+            self.machine.value = setup["machine"]
+            self.backend.value = setup["property_model"]
+            self.fluid.value = setup["fluid"]
+            self.ambient.set_si(setup["ambient_pressure_Pa"])
+            self.mech.set_si(setup["mechanical_efficiency"])
+            u = setup["instrument_uncertainty"]
+            self.u_pressure.set_si(u["pressure_fraction"])
+            self.u_temperature.set_si(u["temperature_K"])
+            self.u_flow.set_si(u["flow_fraction"])
+            self.u_power.set_si(u["power_fraction"])
+            d = setup["design_point"]
+            for entry, key in ((self.d_eta, "isentropic_efficiency"),
+                               (self.d_power, "shaft_power_W"),
+                               (self.d_flow, "inlet_volume_flow_m3_per_s"),
+                               (self.d_speed, "speed_rpm")):
+                entry.set_si(_nan(d[key]))
+            self.steady_window.value = setup["steady_window_rows"]
+            columns = setup["columns"]
+            for name in READING_KINDS:
+                self._tolerance_edited.discard(name)
+                if name not in columns:
+                    self.map_column[name].value = NONE
+                    continue
+                self.map_unit[name].value = columns[name]["unit"]
+                self.map_column[name].value = columns[name]["column"]
+            for name, entry in columns.items():
+                kind = READING_KINDS[name][0]
+                si = entry[test_setup.TOLERANCE_KEYS[kind]]
+                self._quiet = True
+                try:
+                    self.tolerance[name].value = difference_from_si(si, entry["unit"], kind,
+                                                                    name)
+                finally:
+                    self._quiet = False
+                self._tolerance_edited.add(name)
+        finally:
+            self._loading_setup = False
+
+    def _setup_uploaded(self, change):
+        value = change["new"]
+        if not value:
+            return
+        try:
+            item = value[0] if isinstance(value, (tuple, list)) else next(iter(value.values()))
+            content = item["content"] if isinstance(item, dict) else item.content
+            name = item.get("name", "") if isinstance(item, dict) else getattr(item, "name", "")
+            self.load_setup(bytes(content), name)
+        except Exception as exc:  # noqa: BLE001 - a callback never raises into the page
+            self._say(f"setup not loaded: the upload could not be read "
+                      f"({type(exc).__name__})", error=True)
+        self.setup_upload.value = ()  # so the same file can be loaded again
+
+    def _refresh_setup_link(self):
+        """Put the current setup into the download link (a data: URL), or say what is wrong."""
+        try:
+            text = self.setup_json()
+        except WorkbenchError as exc:
+            self._say(f"setup not saved: {exc}", error=True)
+            return
+        except Exception as exc:  # noqa: BLE001 - a callback never raises into the page
+            self._say(f"setup not saved ({type(exc).__name__})", error=True)
+            return
+        stem = pathlib.Path(self.file_name).stem if self.file_name else "test"
+        encoded = base64.b64encode(text.encode("utf-8")).decode("ascii")
+        self.setup_link.value = (
+            f"<a download='{html.escape(stem + '-setup.json', quote=True)}' "
+            f"href='data:application/json;base64,{encoded}' target='_blank'>"
+            "Download the setup (JSON, SI values)</a>")
 
     # ------------------------------------------------------------------ display
     def _say(self, text: str, error: bool = False):
@@ -716,6 +881,7 @@ class FieldDataPanel(widgets.VBox):
             f"{base64.b64encode(csv).decode()}'>Download all {len(r)} rows as CSV</a>"
             " (SI units; <code>steady</code> and each reading's largest deviation from its "
             "window mean)")
+        self._refresh_setup_link()
 
     def export_frame(self) -> pd.DataFrame:
         """Readings, status, message, results, design deviations and steady flags (SI)."""
