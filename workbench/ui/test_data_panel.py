@@ -52,7 +52,7 @@ import numpy as np
 import pandas as pd
 
 from .. import SAFETY_CAUTION
-from ..errors import InputError, WorkbenchError
+from ..errors import CaseFileError, InputError, WorkbenchError
 from ..fieldtest import (
     DesignPoint,
     compare_with_design,
@@ -716,10 +716,17 @@ class FieldDataPanel(widgets.VBox):
             setup = test_setup.read_setup(source, list(self.raw.columns), self.file_name)
             columns = setup["columns"]
             # try what validation alone cannot settle: the fluid and the conversion
-            parse_fluid(setup["fluid"], setup["property_model"])
-            readings_from_frame(self.raw, {n: c["column"] for n, c in columns.items()},
-                                {n: c["unit"] for n, c in columns.items()},
-                                ambient_pressure=setup["ambient_pressure_Pa"])
+            try:
+                parse_fluid(setup["fluid"], setup["property_model"])
+            except WorkbenchError as exc:
+                raise CaseFileError(f"setup key 'fluid' = {setup['fluid']!r} (property model "
+                                    f"{setup['property_model']}): {exc}") from None
+            try:
+                readings_from_frame(self.raw, {n: c["column"] for n, c in columns.items()},
+                                    {n: c["unit"] for n, c in columns.items()},
+                                    ambient_pressure=setup["ambient_pressure_Pa"])
+            except WorkbenchError as exc:
+                raise CaseFileError(f"setup key 'columns': {exc}") from None
         except WorkbenchError as exc:  # the panel and its results stay as they were
             self._say(f"setup not loaded: {exc}", error=True)
             return False
