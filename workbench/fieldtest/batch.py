@@ -120,6 +120,8 @@ def _evaluate_arrays(machine, fluid, mode, mechanical_efficiency, names, p1, t1,
     with np.errstate(invalid="ignore"):
         ok = inlet.valid & (p2 > p1 if raises else p2 < p1) & fluid._pressure_ok(p2)
         ok &= np.abs(p2 - p1) > 1e-9 * p1
+        if mode == "power":
+            ok &= second >= 0  # the core wants the measured power as a positive magnitude
         if machine == "pump":
             ok &= ~np.isin(inlet.phase, ("gas", "two-phase"))
         if not 0.0 < eta_m <= 1.0:
