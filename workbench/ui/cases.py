@@ -231,34 +231,42 @@ def read_case(source) -> dict:
 
     Returns the result of :func:`validate_case`.
     """
+    return validate_case(read_json_source(source, "case"))
+
+
+def read_json_source(source, what: str):
+    """The parsed JSON of a dict (returned as it is), a JSON text, bytes or a file path.
+
+    ``what`` names the file in messages ("case", "setup").  Raises CaseFileError for text that
+    is not UTF-8 or not JSON (NaN and Infinity included), an unreadable path or another type.
+    """
     if isinstance(source, dict):
-        return validate_case(source)
+        return source
     if isinstance(source, (bytes, bytearray, memoryview)):
         try:
             text = bytes(source).decode("utf-8")
         except UnicodeDecodeError:
-            raise CaseFileError("the case file is not UTF-8 text") from None
+            raise CaseFileError(f"the {what} file is not UTF-8 text") from None
     elif isinstance(source, Path) or (isinstance(source, str) and not source.lstrip().startswith("{")):
         try:
             text = Path(source).read_text(encoding="utf-8")
         except (OSError, UnicodeDecodeError) as exc:
-            raise CaseFileError(f"could not read the case file {str(source)!r}: "
+            raise CaseFileError(f"could not read the {what} file {str(source)!r}: "
                                 f"{exc.__class__.__name__}") from None
     elif isinstance(source, str):
         text = source
     else:
-        raise CaseFileError(f"a case must be a dict, a JSON text or a path, not "
+        raise CaseFileError(f"a {what} must be a dict, a JSON text or a path, not "
                             f"{type(source).__name__}")
     try:
-        data = json.loads(text, parse_constant=_refuse_constant)
+        return json.loads(text, parse_constant=lambda name: _refuse_constant(name, what))
     except json.JSONDecodeError as exc:
-        raise CaseFileError(f"the case file is not valid JSON (line {exc.lineno}, column "
+        raise CaseFileError(f"the {what} file is not valid JSON (line {exc.lineno}, column "
                             f"{exc.colno}: {exc.msg})") from None
-    return validate_case(data)
 
 
-def _refuse_constant(name):
-    raise CaseFileError(f"the case file holds {name}, which is not a number JSON allows")
+def _refuse_constant(name, what="case"):
+    raise CaseFileError(f"the {what} file holds {name}, which is not a number JSON allows")
 
 
 def case_json(case: dict) -> str:

@@ -36,10 +36,10 @@ from __future__ import annotations
 
 import json
 import math
-from pathlib import Path
 
 from ..errors import CaseFileError
 from ..fieldtest.readers import READING_KINDS, convert_values, parse_unit
+from .cases import read_json_source
 
 FORMAT_NAME = "turbo-workbench field-test setup"
 FORMAT_VERSION = 1
@@ -329,35 +329,7 @@ def read_setup(source, file_columns=None, file_name: str = "") -> dict:
     Returns the result of :func:`validate_setup` (``file_columns`` and ``file_name`` are
     passed on).
     """
-    if isinstance(source, dict):
-        return validate_setup(source, file_columns, file_name)
-    if isinstance(source, (bytes, bytearray, memoryview)):
-        try:
-            text = bytes(source).decode("utf-8")
-        except UnicodeDecodeError:
-            raise CaseFileError("the setup file is not UTF-8 text") from None
-    elif isinstance(source, Path) or (isinstance(source, str)
-                                      and not source.lstrip().startswith("{")):
-        try:
-            text = Path(source).read_text(encoding="utf-8")
-        except (OSError, UnicodeDecodeError) as exc:
-            raise CaseFileError(f"could not read the setup file {str(source)!r}: "
-                                f"{exc.__class__.__name__}") from None
-    elif isinstance(source, str):
-        text = source
-    else:
-        raise CaseFileError(f"a setup must be a dict, a JSON text or a path, not "
-                            f"{type(source).__name__}")
-    try:
-        data = json.loads(text, parse_constant=_refuse_constant)
-    except json.JSONDecodeError as exc:
-        raise CaseFileError(f"the setup file is not valid JSON (line {exc.lineno}, column "
-                            f"{exc.colno}: {exc.msg})") from None
-    return validate_setup(data, file_columns, file_name)
-
-
-def _refuse_constant(name):
-    raise CaseFileError(f"the setup file holds {name}, which is not a number JSON allows")
+    return validate_setup(read_json_source(source, "setup"), file_columns, file_name)
 
 
 def setup_json(setup: dict) -> str:
