@@ -68,32 +68,22 @@ def gas_rows(n, seed=2):
                          "mass_flow": rng.uniform(8.0, 12.0, n)})
 
 
-def naive_steam(frame):
+def naive_steam(frame, fluid="Water"):
     import CoolProp.CoolProp as CP
 
     eta = []
     for row in frame.itertuples():
-        h1 = CP.PropsSI("H", "P", row.inlet_pressure, "T", row.inlet_temperature, "Water")
-        s1 = CP.PropsSI("S", "P", row.inlet_pressure, "T", row.inlet_temperature, "Water")
-        h2s = CP.PropsSI("H", "P", row.outlet_pressure, "S", s1, "Water")
+        h1 = CP.PropsSI("H", "P", row.inlet_pressure, "T", row.inlet_temperature, fluid)
+        s1 = CP.PropsSI("S", "P", row.inlet_pressure, "T", row.inlet_temperature, fluid)
+        h2s = CP.PropsSI("H", "P", row.outlet_pressure, "S", s1, fluid)
         h2 = h1 - row.power / row.mass_flow
-        CP.PropsSI("T", "P", row.outlet_pressure, "H", h2, "Water")
+        CP.PropsSI("T", "P", row.outlet_pressure, "H", h2, fluid)
         eta.append((h1 - h2) / (h1 - h2s))
     return np.array(eta)
 
 
 def naive_steam_if97(frame):
-    import CoolProp.CoolProp as CP
-
-    eta = []
-    for row in frame.itertuples():
-        h1 = CP.PropsSI("H", "P", row.inlet_pressure, "T", row.inlet_temperature, "IF97::Water")
-        s1 = CP.PropsSI("S", "P", row.inlet_pressure, "T", row.inlet_temperature, "IF97::Water")
-        h2s = CP.PropsSI("H", "P", row.outlet_pressure, "S", s1, "IF97::Water")
-        h2 = h1 - row.power / row.mass_flow
-        CP.PropsSI("T", "P", row.outlet_pressure, "H", h2, "IF97::Water")
-        eta.append((h1 - h2) / (h1 - h2s))
-    return np.array(eta)
+    return naive_steam(frame, "IF97::Water")
 
 
 def naive_gas(frame):
