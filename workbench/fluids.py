@@ -656,7 +656,7 @@ class Fluid:
             t_sat = self._props("T", "P", P[idx[near]], "Q", 0.0)
             ambiguous = np.abs(T[idx[near]] - t_sat) < 1e-6 * t_sat
             valid[idx[near][ambiguous]] = False
-        return self._single_phase(P, T, valid)
+        return self._read_arrays(P, "P", P, "T", T, valid)
 
     def states_Ph(self, P, h) -> StateArray:
         """States from arrays of pressure [Pa] and specific enthalpy [J/kg].
@@ -778,11 +778,8 @@ class Fluid:
             phase[single] = found.phase
             valid[single] = found.valid
         valid &= np.isfinite(out["T"]) & self._temperature_ok(out["T"])
-        for name in out:
-            out[name][~valid] = np.nan
-        phase[~valid] = ""
-        return StateArray(self, np.where(valid, P, np.nan), out["T"], out["h"], out["s"],
-                          out["rho"], out["x"], out["cp"], phase, valid)
+        return _masked(StateArray(self, P, out["T"], out["h"], out["s"], out["rho"], out["x"],
+                                  out["cp"], phase, valid), valid)
 
     def _saturation_arrays(self, P):
         """Saturation temperature [K] and saturated liquid and vapour h, s, rho at P [Pa].
@@ -801,9 +798,6 @@ class Fluid:
                (("h", "H"), ("s", "S"), ("rho", "D"))}
         self._sat_arrays = (key, (t_sat, liq, vap))
         return t_sat, liq, vap
-
-    def _single_phase(self, P, T, valid) -> StateArray:
-        return self._read_arrays(P, "P", P, "T", T, valid)
 
     def _read_arrays(self, P, name1, value1, name2, value2, valid) -> StateArray:
         """Read T, h, s, rho, phase (and cp, quality) at the valid entries."""
@@ -830,15 +824,11 @@ class Fluid:
                 inside = (q >= 0) & (q <= 1)
                 out["x"][rows[inside]] = q[inside]
                 out["cp"][rows] = np.nan
-        ok = np.isfinite(out["T"] + out["h"] + out["s"] + out["rho"]) & (out["rho"] > 0)
-        ok &= phase != ""
-        valid = valid & ok
-        for name in out:
-            out[name][~valid] = np.nan
-        out["cp"][~np.isfinite(out["cp"])] = np.nan
-        phase[~valid] = ""
-        return StateArray(self, np.where(valid, P, np.nan), out["T"], out["h"], out["s"],
-                          out["rho"], out["x"], out["cp"], phase, valid)
+        with np.errstate(invalid="ignore"):
+            ok = np.isfinite(out["T"] + out["h"] + out["s"] + out["rho"]) & (out["rho"] > 0)
+        valid = valid & ok & (phase != "")
+        return _masked(StateArray(self, P, out["T"], out["h"], out["s"], out["rho"], out["x"],
+                                  out["cp"], phase, valid), valid)
 
     def _props(self, output: str, name1: str, value1, name2: str, value2) -> np.ndarray:
         """One output of the property library's array interface (inf/errors become NaN)."""
