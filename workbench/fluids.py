@@ -113,6 +113,16 @@ class State:
     phase: str = ""
 
     @property
+    def two_phase(self) -> bool:
+        """True inside the two-phase region (a vapour quality is defined)."""
+        return self.x is not None and not (isinstance(self.x, float) and math.isnan(self.x))
+
+    @property
+    def quality(self) -> float:
+        """Vapour quality [-], NaN when single-phase (for tables)."""
+        return float(self.x) if self.two_phase else math.nan
+
+    @property
     def v(self) -> float:
         """Specific volume [m^3/kg]."""
         return 1.0 / self.rho

@@ -8,6 +8,7 @@ converted here.  Display unit systems for the panels live here too.
 from __future__ import annotations
 
 import math
+import re
 from dataclasses import dataclass
 
 import numpy as np
@@ -34,20 +35,70 @@ SI_UNITS = {
     "density": "kg/m**3",
     "dimensionless": "",
     "heat_flow": "W",
+    "temperature_difference": "K",
+    "specific_energy": "J/kg",
+    "specific_heat": "J/(kg*K)",
+    "rotational_speed": "rad/s",
+    "dynamic_viscosity": "Pa*s",
+    "time": "s",
+    "mass": "kg",
 }
 
 
-def to_si(value, kind: str, name: str) -> float:
-    """Convert a float or pint Quantity to an SI float.
+#: Largest magnitude of any SI input [SI unit].  Anything larger is no physical entry of this
+#: trade and would overflow in use (squares of velocities, products with flows).
+MAX_MAGNITUDE = 1e12
+#: Smallest non-zero magnitude of any SI input: a value below it (1e-300 m) is a typing error
+#: and would overflow when divided by.
+MIN_MAGNITUDE = 1e-12
+
+
+def _unit_words(kind: str) -> str:
+    unit = SI_UNITS[kind]
+    return f" {unit}" if unit else ""
+
+
+def _describe(value) -> str:
+    """Short, safe text of a value for a message (never its whole repr if huge)."""
+    try:
+        text = repr(value)
+    except Exception:  # noqa: BLE001 - a hostile __repr__ must not escape
+        text = f"a {type(value).__name__}"
+    return text if len(text) <= 60 else text[:57] + "..."
+
+
+def _magnitude(value, kind: str, name: str):
+    """SI magnitude of a Quantity (any object) or the value itself."""
+    if isinstance(value, pint.Quantity):
+        unit = SI_UNITS[kind]
+        try:
+            return value.to(unit or "dimensionless").magnitude
+        except pint.DimensionalityError:
+            raise InputError(
+                f"{name} was given in {value.units:~P}, which is not a unit of "
+                f"{kind.replace('_', ' ')} ({unit or 'dimensionless'})") from None
+        except (pint.PintError, TypeError, ValueError, OverflowError, ArithmeticError):
+            raise InputError(f"{name} {_describe(value)} cannot be converted to "
+                             f"{unit or 'a plain number'}") from None
+    return value
+
+
+def to_si(value, kind: str, name: str, *, low=None, high=None, low_open: bool = False,
+          high_open: bool = False) -> float:
+    """Convert one entry to an SI float, validated: the workbench's input boundary.
 
     Parameters
     ----------
-    value : float or pint.Quantity
-        A plain number is taken to be in SI units already.
+    value : int, float, Decimal, numpy scalar or pint.Quantity
+        A plain number is taken to be in SI units already.  Integers of any size are accepted
+        (and refused by name if they overflow a float).
     kind : str
-        Key of :data:`SI_UNITS` (e.g. ``"pressure"``).
+        Key of :data:`SI_UNITS` (e.g. ``"pressure"``); a Quantity's dimension is checked
+        against it.
     name : str
-        Name of the input, used in error messages.
+        Name of the input, used in every error message.
+    low, high : float, optional
+        Allowed range in SI units; ``low_open``/``high_open`` exclude the end itself.
 
     Returns
     -------
@@ -57,35 +108,179 @@ def to_si(value, kind: str, name: str) -> float:
     Raises
     ------
     InputError
-        If the value is not a number, is not finite, or has the wrong dimension.
+        For bool, text, None, arrays, NaN, infinity, overflow, a wrong dimension, a magnitude
+        outside [1e-12, 1e12] (SI) other than zero, or a value outside ``low``..``high``; the
+        message names the input, the value and the allowed range.
+
+    Examples
+    --------
+    >>> to_si(Q_(5, "bar"), "pressure", "inlet pressure")
+    500000.0
     """
-    unit = SI_UNITS[kind]
-    if isinstance(value, pint.Quantity):
-        try:
-            if unit == "":
-                magnitude = value.to("dimensionless").magnitude
-            else:
-                magnitude = value.to(unit).magnitude
-        except pint.DimensionalityError:
-            raise InputError(
-                f"{name} was given in {value.units:~P}, which is not a unit of {kind.replace('_', ' ')}"
-            ) from None
-    else:
-        magnitude = value
-    if isinstance(magnitude, (bool, str, bytes)):
-        raise InputError(f"{name} must be a number, not {magnitude!r}")
+    magnitude = _magnitude(value, kind, name)
+    if magnitude is None:
+        raise InputError(f"{name} is missing: a number is needed")
+    if isinstance(magnitude, (bool, np.bool_, str, bytes)):
+        raise InputError(f"{name} must be a number, not {_describe(magnitude)}")
+    if isinstance(magnitude, np.ndarray) and magnitude.ndim == 0:
+        magnitude = magnitude[()]
+    if isinstance(magnitude, (list, tuple, dict, set, np.ndarray)) or (
+            hasattr(magnitude, "__len__") and not isinstance(magnitude, (int, float))):
+        raise InputError(f"{name} must be a single number, not {_describe(magnitude)}")
     try:
         number = float(magnitude)
-    except (TypeError, ValueError):
-        raise InputError(f"{name} must be a number, not {magnitude!r}") from None
+    except OverflowError:
+        raise InputError(f"{name} {_describe(magnitude)}{_unit_words(kind)} is too large: the "
+                         f"allowed magnitude is at most {MAX_MAGNITUDE:g}{_unit_words(kind)}"
+                         ) from None
+    except (TypeError, ValueError, ArithmeticError):
+        raise InputError(f"{name} must be a number, not {_describe(magnitude)}") from None
     if not math.isfinite(number):
         raise InputError(f"{name} must be a finite number, not {number}")
+    unit = _unit_words(kind)
+    if abs(number) > MAX_MAGNITUDE:
+        raise InputError(f"{name} {number:g}{unit} is too large: the allowed magnitude is at "
+                         f"most {MAX_MAGNITUDE:g}{unit}")
+    if number != 0 and abs(number) < MIN_MAGNITUDE:
+        raise InputError(f"{name} {number:g}{unit} is too small to be meaningful: give 0 or a "
+                         f"magnitude of at least {MIN_MAGNITUDE:g}{unit}")
+    _check_range(number, name, unit, low, high, low_open, high_open)
     return number
 
 
-def optional_si(value, kind: str, name: str):
+def _check_range(number, name, unit, low, high, low_open, high_open):
+    below = low is not None and (number <= low if low_open else number < low)
+    above = high is not None and (number >= high if high_open else number > high)
+    if below or above:
+        lo = "" if low is None else ("(" if low_open else "[") + f"{low:g}"
+        hi = "" if high is None else f"{high:g}" + (")" if high_open else "]")
+        if low is not None and high is not None:
+            allowed = f"{lo}, {hi}"
+        elif low is not None:
+            allowed = ("above " if low_open else "at least ") + f"{low:g}"
+        else:
+            allowed = ("below " if high_open else "at most ") + f"{high:g}"
+        raise InputError(f"{name} {number:g}{unit} is outside the allowed range {allowed}{unit}")
+
+
+def optional_si(value, kind: str, name: str, **bounds):
     """Like :func:`to_si` but passes ``None`` through."""
-    return None if value is None else to_si(value, kind, name)
+    return None if value is None else to_si(value, kind, name, **bounds)
+
+
+def positive(value, kind: str, name: str) -> float:
+    """:func:`to_si` for a quantity that must be above zero (a flow, a diameter...)."""
+    return to_si(value, kind, name, low=0.0, low_open=True)
+
+
+def not_negative(value, kind: str, name: str) -> float:
+    """:func:`to_si` for a quantity that must not be below zero (a velocity magnitude...)."""
+    return to_si(value, kind, name, low=0.0)
+
+
+def fraction(value, name: str, *, allow_zero: bool = False) -> float:
+    """A dimensionless fraction in (0, 1] (or [0, 1] with ``allow_zero``), e.g. an efficiency."""
+    return to_si(value, "dimensionless", name, low=0.0, high=1.0, low_open=not allow_zero)
+
+
+def count(value, name: str, *, low: int = 1, high: int | None = None) -> int:
+    """A whole number (int, numpy integer or an integral float) within [low, high]."""
+    if isinstance(value, (bool, np.bool_)) or value is None or isinstance(value, (str, bytes)):
+        raise InputError(f"{name} must be a whole number, not {_describe(value)}")
+    number = to_si(value, "dimensionless", name)
+    if number != int(number):
+        raise InputError(f"{name} must be a whole number, not {number:g}")
+    _check_range(number, name, "", low, high, False, False)
+    return int(number)
+
+
+def flag(value, name: str) -> bool:
+    """A yes/no option: only ``True`` or ``False`` (numpy bools too) are accepted."""
+    if isinstance(value, (bool, np.bool_)):
+        return bool(value)
+    raise InputError(f"{name} must be True or False, not {_describe(value)}")
+
+
+def choice(value, options, name: str) -> str:
+    """One of a fixed set of option strings; anything else is refused by name.
+
+    Examples
+    --------
+    >>> choice("total", ("static", "total"), "efficiency basis")
+    'total'
+    """
+    options = tuple(options)
+    if not isinstance(value, str) or value not in options:
+        raise InputError(f"{name} must be one of {', '.join(repr(o) for o in options)}, not "
+                         f"{_describe(value)}")
+    return value
+
+
+def text(value, name: str, *, max_length: int = 200) -> str:
+    """A short piece of text (a name, a label): no control characters, bounded length."""
+    if not isinstance(value, str):
+        raise InputError(f"{name} must be text, not {_describe(value)}")
+    if len(value) > max_length:
+        raise InputError(f"{name} is {len(value)} characters long: at most {max_length} allowed")
+    if any(ord(c) < 32 and c not in "\t" for c in value):
+        raise InputError(f"{name} {_describe(value)} contains control characters")
+    return value
+
+
+_UNIT_TEXT = re.compile(r"^[A-Za-z0-9_ .*/^()%-]{1,40}$")
+
+
+def parse_unit(unit_text, kind: str, name: str):
+    """Parse a unit written as text (``"bar"``, ``"m**3/h"``, ``"degC"``) safely.
+
+    The text is checked against a short character set before pint sees it (pint evaluates unit
+    expressions) and its dimension against ``kind``.
+
+    Returns
+    -------
+    pint.Unit
+    """
+    if not isinstance(unit_text, str) or not _UNIT_TEXT.match(unit_text.strip() or "?"):
+        raise InputError(f"unit of {name} {_describe(unit_text)} is not a unit text (letters, "
+                         "digits and * / ^ ( ) . - only, at most 40 characters)")
+    try:
+        unit = ureg.parse_units(unit_text.strip().replace("^", "**"))
+    except Exception:  # noqa: BLE001 - pint raises many kinds (TokenError, UndefinedUnitError...)
+        raise InputError(f"unit of {name} {unit_text!r} is not a unit pint knows") from None
+    target = SI_UNITS[kind] or "dimensionless"
+    if unit.dimensionality != ureg.parse_units(target).dimensionality:
+        raise InputError(f"unit of {name} {unit_text!r} is not a unit of "
+                         f"{kind.replace('_', ' ')} ({target})")
+    return unit
+
+
+def to_si_array(values, kind: str, name: str, *, allow_nan: bool = True) -> np.ndarray:
+    """Convert a sequence, array or array Quantity to a 1-D SI float array, validated.
+
+    NaN marks a missing reading and is kept when ``allow_nan``; infinity, text and values of
+    magnitude above :data:`MAX_MAGNITUDE` are refused by name.
+    """
+    values = _magnitude(values, kind, name)
+    if values is None or isinstance(values, (str, bytes, bool, dict, set)):
+        raise InputError(f"{name} must be a sequence of numbers, not {_describe(values)}")
+    try:
+        array = np.asarray(values, dtype=float)
+    except (TypeError, ValueError, OverflowError):
+        raise InputError(f"{name} must be a sequence of numbers, not {_describe(values)}"
+                         ) from None
+    if array.ndim == 0:
+        array = array.reshape(1)
+    if array.ndim != 1:
+        raise InputError(f"{name} must be a flat sequence of numbers, not an array of shape "
+                         f"{array.shape}")
+    bad = np.isinf(array) | (np.abs(np.nan_to_num(array)) > MAX_MAGNITUDE)
+    if not allow_nan:
+        bad |= np.isnan(array)
+    if bad.any():
+        i = int(np.flatnonzero(bad)[0])
+        raise InputError(f"{name} entry {i} ({array[i]}) must be a finite number of magnitude "
+                         f"at most {MAX_MAGNITUDE:g}{_unit_words(kind)}")
+    return array
 
 
 @dataclass(frozen=True)
@@ -160,11 +355,4 @@ def _make_systems():
 UNIT_SYSTEMS = _make_systems()
 
 
-def as_array(values, kind: str, name: str) -> np.ndarray:
-    """Convert an array-like or array Quantity to an SI float array."""
-    if isinstance(values, pint.Quantity):
-        try:
-            values = values.to(SI_UNITS[kind]).magnitude
-        except pint.DimensionalityError:
-            raise InputError(f"{name} has the wrong unit for {kind}") from None
-    return np.asarray(values, dtype=float)
+as_array = to_si_array
