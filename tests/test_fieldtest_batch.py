@@ -133,7 +133,7 @@ def test_bad_file_every_row_back_bad_rows_flagged():
 def test_results_choice_and_missing_columns():
     frame = air_frame(2)
     out = evaluate(frame, "compressor", "Air", results=("power",), keep_inputs=False)
-    assert list(out.columns) == ["status", "message", "power"]
+    assert list(out.columns) == ["status", "message", "path", "power"]
     with pytest.raises(InputError, match="unknown result"):
         evaluate(frame, "compressor", "Air", results=("efficiency",))
     with pytest.raises(InputError, match="no column for outlet_temperature"):

@@ -182,6 +182,10 @@ class StateArray:
         Plain phase words as in :class:`State` (object array; ``""`` where not valid).
     valid : numpy.ndarray
         Boolean mask of the entries found.
+    tabulated : numpy.ndarray or None
+        Boolean mask of the entries interpolated in a property table (within the table's
+        tolerance of the exact flash, see :mod:`workbench.properties.fast`); None when every
+        entry is an exact flash.
     """
 
     fluid: Fluid = field(repr=False)
@@ -194,6 +198,7 @@ class StateArray:
     cp: np.ndarray
     phase: np.ndarray
     valid: np.ndarray
+    tabulated: np.ndarray | None = None
 
     def __len__(self) -> int:
         return len(self.P)
@@ -650,12 +655,18 @@ class Fluid:
 
     # ------------------------------------------------------------------ array flashes
     def states_PT(self, P, T) -> StateArray:
-        """States from arrays of pressure [Pa] and temperature [K] (one flash per entry).
+        """States from arrays of pressure [Pa] and temperature [K].
 
-        Same checks as :meth:`state_PT`; entries it would refuse are not valid.  Pure fluids
-        are flashed by the property library's array interface; mixtures entry by entry.
+        Same checks as :meth:`state_PT`; entries it would refuse are not valid.  IF97 water
+        and mixtures with a batch's property table take the fast path
+        (:mod:`workbench.properties.fast`); the other entries are flashed exactly.
         """
         P, T = _pair_arrays(P, T)
+        return _fast_states(self, "PT", P, T, self._exact_states_PT)
+
+    def _exact_states_PT(self, P, T) -> StateArray:
+        """Exact array flash from P [Pa] and T [K]: pure fluids by the property library's
+        array interface, mixtures entry by entry."""
         if self.is_mixture:
             return self._states_by_entry(self.state_PT, P, T)
         valid = self._pressure_ok(P) & np.isfinite(T) & self._temperature_ok(T)
@@ -684,6 +695,10 @@ class Fluid:
 
     def _states_from(self, P, target, prop: str) -> StateArray:
         P, target = _pair_arrays(P, target)
+        return _fast_states(self, "P" + prop, P, target,
+                            lambda p, t: self._exact_states_from(p, t, prop))
+
+    def _exact_states_from(self, P, target, prop: str) -> StateArray:
         if self.is_mixture:
             method = self.state_Ph if prop == "h" else self.state_Ps
             return self._states_by_entry(method, P, target)
@@ -1073,6 +1088,20 @@ class Fluid:
         raise PropertyError(f"the {label} flash of {self.name} at {P / 1e5:.6g} bar did not converge")
 
 
+# ---- fast array flashes (workbench/properties/fast.py): the hook of states_PT/Ph/Ps ----
+def _fast_states(fluid, pair, P, value, exact) -> StateArray:
+    """The fast path for IF97 water and for mixtures with a batch's table; exact otherwise."""
+    if fluid.backend != "IF97" and not fluid.is_mixture:
+        return exact(P, value)
+    from .properties import fast
+
+    def make(P, T, h, s, rho, x, cp, phase, valid, tabulated):
+        return _masked(StateArray(fluid, P, T, h, s, rho, x, cp, phase, valid,
+                                  tabulated if tabulated.any() else None), valid)
+
+    return fast.states(fluid, pair, P, value, exact, make)
+
+
 def _none_nan(value):
     return float("nan") if value is None else value
 
@@ -1088,8 +1117,9 @@ def _masked(states: StateArray, keep) -> StateArray:
 
     phase = states.phase.copy()
     phase[~keep] = ""
+    tabulated = None if states.tabulated is None else states.tabulated & keep
     return StateArray(states.fluid, cut(states.P), cut(states.T), cut(states.h), cut(states.s),
-                      cut(states.rho), cut(states.x), cut(states.cp), phase, keep)
+                      cut(states.rho), cut(states.x), cut(states.cp), phase, keep, tabulated)
 
 
 def _pair_arrays(a, b):

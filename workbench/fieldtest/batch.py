@@ -43,6 +43,7 @@ import pandas as pd
 from .. import errors
 from ..fluids import Fluid
 from ..machines.turbomachine import STANDARD_GRAVITY, energy_balance
+from ..properties import fast
 from .readers import PROBLEM_COLUMN, _numbers
 
 #: Result name -> (unit, how to read it from a MachineResult).  Units are SI.
@@ -145,6 +146,7 @@ def _evaluate_arrays(machine, fluid, mode, mechanical_efficiency, names, p1, t1,
         else:
             eta = (inlet.h - outlet.h) / (inlet.h - iso.h)
         ok &= (work > 0) & (eta > 0) & (eta <= 1 + 1e-9)
+        tabulated = _tabulated_rows(fluid, inlet, outlet, iso, dh, eta, ok)
         fluid_power = work * m
         head = np.abs(iso.h - inlet.h)
         columns = {
@@ -163,7 +165,33 @@ def _evaluate_arrays(machine, fluid, mode, mechanical_efficiency, names, p1, t1,
             "outlet_temperature_sensitivity": (np.abs(eta * outlet.cp / dh) if mode == "outlet"
                                                else np.full(len(p1), np.nan)),
         }
-    return np.column_stack([columns[name] for name in names]), ok
+    return np.column_stack([columns[name] for name in names]), ok, tabulated
+
+
+# ---- fast path (workbench/properties/fast.py): which rows a property table computed --------
+def _tabulated_rows(fluid, inlet, outlet, iso, dh, eta, ok):
+    """Rows whose states came from a property table; ``ok`` is cleared (in place) for rows
+    whose efficiency bound exceeds the tolerance or that lie within it of a check's limit,
+    so the single-point API computes them."""
+    masks = [a.tabulated for a in (inlet, outlet, iso)]
+    if all(mask is None for mask in masks):
+        return np.zeros(len(ok), dtype=bool)
+    t_in, t_out, t_iso = (np.zeros(len(ok), bool) if m is None else m for m in masks)
+    tabulated = t_in | t_out | t_iso
+    bound = fast.efficiency_bound(dh, iso.T, t_in, t_out, t_iso, fast.active_table(fluid))
+    with np.errstate(invalid="ignore"):
+        near = (bound > fast.EFFICIENCY_TOLERANCE) | (eta + bound > 1 + 1e-9) | (eta <= bound)
+    ok &= ~(tabulated & near)
+    return tabulated & ok
+
+
+def _prepare_fast(fluid, mode, p1, t1, p2, second):
+    """Build (or reuse) a mixture's property table over the batch's states; True when the
+    whole-array path can run for this fluid."""
+    if not fluid.is_mixture:
+        return True
+    temperatures = (t1, second) if mode == "outlet" else (t1,)
+    return fast.prepare(fluid, np.concatenate([p1, p2]), np.concatenate(temperatures)) is not None
 
 
 def _is_dask(frame) -> bool:
@@ -344,14 +372,18 @@ def evaluate(frame, machine: str = "compressor", fluid=None, *, columns: dict | 
     p1, t1, p2 = values["inlet_pressure"], values["inlet_temperature"], values["outlet_pressure"]
     second = values["outlet_temperature"] if mode == "outlet" else values["power"]
     todo = np.flatnonzero(status == STATUS_OK)
-    if not fluid.is_mixture and set(names) <= set(ARRAY_RESULTS) and len(todo):
-        # Pure fluids: whole-array flashes; the rows the array path cannot settle (a reading
-        # the core would refuse, a state not found) go through the single-point API below,
-        # which gives their status and message.
-        computed, settled = _evaluate_arrays(
+    path = np.full(n, fast.PATH_EXACT, dtype=object)
+    if (set(names) <= set(ARRAY_RESULTS) and len(todo)
+            and _prepare_fast(fluid, mode, p1[todo], t1[todo], p2[todo], second[todo])):
+        # Whole-array flashes (pure fluids; mixtures with a property table); the rows the
+        # array path cannot settle (a reading the core would refuse, a state not found, a
+        # tabulated row too near a limit) go through the single-point API below, which
+        # gives their status and message.
+        computed, settled, tabulated = _evaluate_arrays(
             machine, fluid, mode, mechanical_efficiency, names, p1[todo], t1[todo], p2[todo],
             second[todo], flow[todo], flow_name, rho_standard)
         out[todo[settled]] = computed[settled]
+        path[todo[tabulated]] = fast.PATH_TABLE
         todo = todo[~settled]
     done: dict = {}  # identical readings (a historian repeating its last value) solved once
     for i in todo:
@@ -390,12 +422,26 @@ def evaluate(frame, machine: str = "compressor", fluid=None, *, columns: dict | 
         done[key] = (status[i], message[i], out[i].copy())
 
     result = pd.DataFrame(out, index=frame.index, columns=names)
+    result.insert(0, "path", pd.Series(path, index=frame.index, dtype=object))
     result.insert(0, "message", pd.Series(message, index=frame.index, dtype=object))
     result.insert(0, "status", pd.Series(status, index=frame.index, dtype=object))
     if keep_inputs:
         clash = {c: f"reading_{c}" for c in frame.columns if c in result.columns}
         result = pd.concat([frame.rename(columns=clash), result], axis=1)
+    result.attrs["tolerance"] = _tolerance_note(fluid, path)
     return result
+
+
+def _tolerance_note(fluid, path) -> dict:
+    """What the ``path`` column means and the tolerance tabulated rows hold."""
+    note = {"exact": "the exact flashes of the single-point API (IF97 regions 1, 2 and 4 "
+                     "evaluated over arrays, to rounding)"}
+    table = fast.active_table(fluid) if (path == fast.PATH_TABLE).any() else None
+    if table is not None:
+        note["table"] = {"isentropic_efficiency": fast.EFFICIENCY_TOLERANCE,
+                         **{f"table_{k}": v for k, v in table.tolerance.items()},
+                         "measured": dict(table.max_error)}
+    return note
 
 
 __all__ = ["evaluate", "RESULTS", "ARRAY_RESULTS", "DEFAULT_RESULTS", "STANDARD_CONDITIONS", "result_columns",
