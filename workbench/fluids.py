@@ -1096,8 +1096,9 @@ def _fast_states(fluid, pair, P, value, exact) -> StateArray:
     from .properties import fast
 
     def make(P, T, h, s, rho, x, cp, phase, valid, tabulated):
-        return _masked(StateArray(fluid, P, T, h, s, rho, x, cp, phase, valid,
-                                  tabulated if tabulated.any() else None), valid)
+        # entries not valid are NaN and "" already (fast path and exact flashes)
+        return StateArray(fluid, P, T, h, s, rho, x, cp, phase, valid,
+                          tabulated & valid if tabulated.any() else None)
 
     return fast.states(fluid, pair, P, value, exact, make)
 

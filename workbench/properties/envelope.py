@@ -181,4 +181,10 @@ def _trace(components, fractions) -> PhaseEnvelope:
     return PhaseEnvelope(T[keep], P[keep])
 
 
-__all__ = ["PhaseEnvelope", "phase_envelope", "DEW_MARGIN"]
+def clear_cache() -> None:
+    """Forget every traced envelope."""
+    with _LOCK:
+        _CACHE.clear()
+
+
+__all__ = ["clear_cache", "PhaseEnvelope", "phase_envelope", "DEW_MARGIN"]

@@ -100,10 +100,16 @@ def prepare(fluid, pressures, temperatures, tolerance=None):
     return table
 
 
-def forget(fluid) -> None:
-    """Drop the fluid's active table (later flashes are exact)."""
+def forget(fluid=None) -> None:
+    """Drop the fluid's active table (later flashes are exact); with no fluid, drop every
+    table and traced envelope (a batch then builds its own, as in a fresh process)."""
     with _LOCK:
-        _ACTIVE.pop(_key(fluid), None)
+        if fluid is None:
+            _ACTIVE.clear()
+            tables.clear_cache()
+            _envelope.clear_cache()
+        else:
+            _ACTIVE.pop(_key(fluid), None)
 
 
 def states(fluid, pair, P, value, exact, make):
@@ -137,13 +143,12 @@ def states(fluid, pair, P, value, exact, make):
         table = active_table(fluid)
         if table is not None:
             found = _table_flash(table, pair, P, value)
-            tabulated = found.ok.copy()
+            tabulated = found.ok.copy()  # found.ok is completed by the exact flashes below
     if found is None or not found.ok.any():
         return exact(P, value)
     rest = np.flatnonzero(~found.ok)
-    cols = {name: getattr(found, name).copy() for name in ("T", "h", "s", "rho", "x", "cp")}
-    phase = found.phase.copy()
-    valid = found.ok.copy()
+    cols = {name: getattr(found, name) for name in ("T", "h", "s", "rho", "x", "cp")}
+    phase, valid = found.phase, found.ok
     if len(rest):
         other = exact(P[rest], value[rest])
         for name in cols:

@@ -11,8 +11,8 @@ property library's IF97 backend (and the ``iapws`` package) to rounding.
 Pressure-entropy and pressure-enthalpy states follow the rules of the single-state API
 (``Fluid.state_Ps`` / ``state_Ph`` for IF97): inside the saturation dome the lever rule between
 the saturated states at the pressure, outside it a Newton iteration on temperature with the
-forward equations (consistent with them to 1e-10 of the temperature), never the backward
-equations.  Entries these functions cannot settle (region 3 near the critical point, region 5,
+forward equations (consistent with them to better than 1e-10 of the temperature), never the
+backward equations.  Entries these functions cannot settle (region 3 near the critical point, region 5,
 states on or very near a region boundary, iterations that do not converge) come back with
 ``ok`` False; the caller flashes them with the single-state API.
 
@@ -114,11 +114,12 @@ class _Gibbs:
         self.I, self.J = np.unique(i_exp), np.unique(j_exp)
         self.rows_x = np.searchsorted(self.I, i_exp)
         self.rows_y = np.searchsorted(self.J, j_exp)
-        self.weights = np.vstack([n, n * i_exp, n * j_exp,
-                                  n * j_exp * (j_exp - 1)]).astype(float)
+        self.weights = np.vstack([n, n * i_exp, n * j_exp, n * j_exp * (j_exp - 1),
+                                  n * j_exp * (j_exp - 1) * (j_exp - 2),
+                                  n * i_exp * j_exp]).astype(float)
 
     def __call__(self, x, y):
-        """g, x g_x, y g_y and y**2 g_yy at arrays x, y (same length)."""
+        """g, x g_x, y g_y, y**2 g_yy, y**3 g_yyy and x y g_xy at arrays x, y."""
         X = _powers(x, self.I)
         Y = _powers(y, self.J)
         terms = X[self.rows_x] * Y[self.rows_y]
@@ -164,7 +165,7 @@ _G2 = _Gibbs(_R2_RES)
 _J0I = np.array(sorted(j for j, _ in _R2_IDEAL))  # distinct, sorted for _powers
 _N0 = np.array([n for _, n in sorted(_R2_IDEAL)])
 _J0 = _J0I.astype(float)
-_W0 = np.vstack([_N0, _N0 * _J0, _N0 * _J0 * (_J0 - 1)])
+_W0 = np.vstack([_N0, _N0 * _J0, _N0 * _J0 * (_J0 - 1), _N0 * _J0 * (_J0 - 1) * (_J0 - 2)])
 
 
 def region1(P, T):
@@ -178,20 +179,39 @@ def region1(P, T):
     >>> round(float(h[0]) / 1e3, 6)  # IAPWS R7-97 table 5: 0.115331273e3 kJ/kg
     115.331273
     """
+    return _region1(P, T)[:4]
+
+
+def _region1(P, T):
+    """h, s, rho, cp and (dcp/dT)_P of region 1."""
     P, T = np.asarray(P, dtype=float), np.asarray(T, dtype=float)
     pi = P / 16.53e6
     tau = 1386.0 / T
     y = tau - 1.222
-    g, xg_x, yg_y, yyg_yy = _G1(7.1 - pi, y)
-    g_y = yg_y / y
-    g_yy = yyg_yy / (y * y)
-    g_pi = -xg_x / (7.1 - pi)  # x = 7.1 - pi, so d/dpi = -d/dx
+    x = 7.1 - pi
+    g, xg_x, yg_y, yyg_yy, yyyg_yyy, xyg_xy = _G1(x, y)
+    inv = 1.0 / y
+    g_y = yg_y * inv
+    g_yy = yyg_yy * (inv * inv)
+    g_pi = -xg_x / x  # x = 7.1 - pi, so d/dpi = -d/dx
     rt = R * T
     h = rt * tau * g_y
     s = R * (tau * g_y - g)
     rho = P / (rt * pi * g_pi)
     cp = -R * tau * tau * g_yy
-    return h, s, rho, cp
+    pg_pt = -pi * xyg_xy / (x * y)  # pi d2g/dpi dtau
+    return (h, s, rho, cp, _cp_slope(tau, T, g_yy, yyyg_yyy * (inv * inv * inv)),
+            _rho_slope(rho, T, tau, P, pg_pt))
+
+
+def _rho_slope(rho, T, tau, P, pg_pt):
+    """(d rho/dT)_P from v = (R T / P) pi g_pi: dv/dT = v/T - (R tau / P) pi g_pitau."""
+    return -rho * rho * (1.0 / (rho * T) - R * tau / P * pg_pt)
+
+
+def _cp_slope(tau, T, g_tt, g_ttt):
+    """(dcp/dT)_P from cp = -R tau^2 g_tautau, dtau/dT = -tau/T."""
+    return R * tau * (2.0 * tau * g_tt + tau * tau * g_ttt) / T
 
 
 def region2(P, T):
@@ -205,26 +225,30 @@ def region2(P, T):
     >>> round(float(s[0]) / 1e3, 6)  # IAPWS R7-97 table 15: 0.101749996e2 kJ/(kg K)
     10.1749996
     """
+    return _region2(P, T)[:4]
+
+
+def _region2(P, T):
+    """h, s, rho, cp and (dcp/dT)_P of region 2."""
     P, T = np.asarray(P, dtype=float), np.asarray(T, dtype=float)
     pi = P / 1e6
     tau = 540.0 / T
     y = tau - 0.5
-    gr, pg_r, yg_y, yyg_yy = _G2(pi, y)
-    gr_t = yg_y / y
-    gr_tt = yyg_yy / (y * y)
+    gr, pg_r, yg_y, yyg_yy, yyyg_yyy, pyg_py = _G2(pi, y)
+    inv_y = 1.0 / y
     # ideal part: ln(pi) + sum n0 tau^J0
-    g0, tg0_t, ttg0_tt = np.einsum("tk,kn->tn", _W0, _powers(tau, _J0I))
-    g0 = g0 + np.log(pi)
+    g0, tg0_t, ttg0_tt, tttg0_ttt = np.einsum("tk,kn->tn", _W0, _powers(tau, _J0I))
     inv = 1.0 / tau
-    g0_t = tg0_t * inv
-    g0_tt = ttg0_tt * (inv * inv)
+    g_t = tg0_t * inv + yg_y * inv_y
+    g_tt = ttg0_tt * (inv * inv) + yyg_yy * (inv_y * inv_y)
+    g_ttt = tttg0_ttt * (inv * inv * inv) + yyyg_yyy * (inv_y * inv_y * inv_y)
     rt = R * T
-    g_t = g0_t + gr_t
     h = rt * tau * g_t
-    s = R * (tau * g_t - (g0 + gr))
+    s = R * (tau * g_t - (g0 + np.log(pi) + gr))
     rho = P / (rt * (1.0 + pg_r))
-    cp = -R * tau * tau * (g0_tt + gr_tt)
-    return h, s, rho, cp
+    cp = -R * tau * tau * g_tt
+    return (h, s, rho, cp, _cp_slope(tau, T, g_tt, g_ttt),
+            _rho_slope(rho, T, tau, P, pyg_py * inv_y))
 
 
 def saturation_temperature(P):
@@ -383,8 +407,8 @@ def flash_Ps(P, s) -> Flash:
 
     Inside the saturation dome: the lever rule between the saturated liquid (region 1) and
     vapour (region 2) at the saturation temperature of the pressure; outside it: Newton
-    iteration on temperature with the forward equations of region 1 or 2 until the step is
-    below 1e-10 of the temperature, as the single-state API does.  Pressures from the triple
+    iteration on temperature with the forward equations of region 1 or 2 (to better than
+    1e-10 of the temperature, as the single-state API).  Pressures from the triple
     point up to the saturation pressure at 623.15 K.
 
     Examples
@@ -406,60 +430,112 @@ def _flash_from(P, target, prop):
     if not len(rows):
         return out
     p, value = P[rows], target[rows]
-    t_sat = saturation_temperature(p)
-    liq = _blocks(region1, p, t_sat)
-    vap = _blocks(region2, p, t_sat)
+    sat = _Saturation.of(p)
     k = 0 if prop == "h" else 1
-    lo, hi = liq[k], vap[k]
+    hi = sat.vapour[k]
     m = 1e-9 * np.maximum(np.abs(hi), 1.0)
-    two = (value >= lo + m) & (value <= hi - m)
+    gas = value > hi + m
+    if gas.any():
+        _newton(out, rows[gas], p[gas], value[gas], sat.T[gas],
+                tuple(column[gas] for column in sat.vapour), prop, 2)
+    rest = np.flatnonzero(~gas)
+    if not len(rest):
+        return out
+    liq = sat.liquid(rest)
+    vap = tuple(column[rest] for column in sat.vapour)
+    lo, hi, value, t_sat = liq[k], hi[rest], value[rest], sat.T[rest]
+    two = (value >= lo + m[rest]) & (value <= hi - m[rest])
     if two.any():
         x = (value[two] - lo[two]) / (hi[two] - lo[two])
         v = (1 - x) / liq[2][two] + x / vap[2][two]
-        r = rows[two]
+        r = rows[rest[two]]
         out.put(r, t_sat[two], liq[0][two] + x * (vap[0][two] - liq[0][two]),
                 liq[1][two] + x * (vap[1][two] - liq[1][two]), 1.0 / v, np.nan, "two-phase")
         out.x[r] = x
-    for side, edge, region, equation in ((value > hi + m, vap, 2, region2),
-                                         (value < lo - m, liq, 1, region1)):
-        if side.any():
-            _newton(out, rows[side], p[side], value[side], t_sat[side], edge[k][side],
-                    edge[3][side], prop, region, equation)
+    liquid = value < lo - m[rest]
+    if liquid.any():
+        _newton(out, rows[rest[liquid]], p[rest[liquid]], value[liquid], t_sat[liquid],
+                tuple(column[liquid] for column in liq), prop, 1)
     return out
 
 
-def _newton(out, rows, P, target, t_sat, edge_value, edge_cp, prop, region, equation):
-    """Newton iteration on T for h(P, T) or s(P, T) = target on one side of the dome."""
-    excess = target - edge_value
-    T = t_sat + excess / edge_cp if prop == "h" else t_sat * np.exp(excess / edge_cp)
+class _Saturation:
+    """Saturation temperature and saturated vapour (h, s, rho, cp) at an array of pressures;
+    the saturated liquid on demand, for the entries that need it.
+
+    The last pressure array is remembered: a batch asks for the isentropic and the actual
+    outlet state at the same outlet pressures.
+    """
+
+    _last: list = [None]
+
+    def __init__(self, P):
+        self.P = P
+        self.T = saturation_temperature(P)
+        self.vapour = _blocks(_region2, P, self.T)
+        self._liquid = tuple(np.full(len(P), np.nan) for _ in range(6))
+        self._known = np.zeros(len(P), dtype=bool)
+
+    @classmethod
+    def of(cls, P):
+        key = P.tobytes()
+        last = cls._last[0]
+        if last is not None and last[0] == key:
+            return last[1]
+        found = cls(P)
+        cls._last[0] = (key, found)
+        return found
+
+    def liquid(self, rows):
+        missing = rows[~self._known[rows]]
+        if len(missing):
+            values = _blocks(_region1, self.P[missing], self.T[missing])
+            for column, value in zip(self._liquid, values):
+                column[missing] = value
+            self._known[missing] = True
+        return tuple(column[rows] for column in self._liquid)
+
+
+def _newton(out, rows, P, target, t_sat, edge, prop, region):
+    """Halley iteration on T for h(P, T) or s(P, T) = target on one side of the dome.
+
+    Halley's method uses the first and second temperature derivatives (cp and dcp/dT from the
+    equations) and converges cubically; the first step starts from the saturated state
+    ``edge`` (h, s, rho, cp, dcp/dT, drho/dT at ``t_sat``); steps that leave the bracket are
+    bisected.
+    """
+    T = t_sat + _halley_step(edge, t_sat, target, prop)[0]
     gas = region == 2
-    lower = t_sat if gas else np.full(len(P), T_LOW)
-    upper = np.full(len(P), T_HIGH) if gas else t_sat
+    equation = _region2 if gas else _region1
+    lower = t_sat.copy() if gas else np.full(len(P), T_LOW)
+    upper = np.full(len(P), T_HIGH) if gas else t_sat.copy()
     T = np.clip(T, lower, upper)
     active = np.arange(len(P))
     for _ in range(40):
         if not len(active):
             break
         Ta, Pa = T[active], P[active]
-        h, s, rho, cp = _blocks(equation, Pa, Ta)
+        h, s, rho, cp, dcp, drho = _blocks(equation, Pa, Ta)
+        step, slope = _halley_step((h, s, rho, cp, dcp, drho), Ta, target[active], prop)
         f = (h if prop == "h" else s) - target[active]
-        slope = cp if prop == "h" else cp / Ta
-        with np.errstate(invalid="ignore", divide="ignore"):
-            step = -f / slope
         good = np.isfinite(step) & (slope > 0)
-        done = good & (np.abs(step) < 1e-10 * Ta)
+        done = good & (np.abs(step) < 1e-6 * Ta)
         if done.any():
-            # The last step is below 1e-10 of the temperature (where the single-state
-            # iteration stops and flashes once more): take it to first order, h + cp dT and
-            # s + cp/T dT, exact to the square of the step.
+            # The last step is below 1e-6 of the temperature: the root is T + step to the cube
+            # of the step (Halley), and the state there follows by Taylor's series to the
+            # cube of the step as well (relative 1e-18: below the single-state iteration's
+            # 1e-10).
             d = active[done]
             idx = np.flatnonzero(done)
-            dT = step[idx]
-            T_end = Ta[idx] + dT
+            dT, Td = step[idx], Ta[idx]
+            T_end = Td + dT
             keep = region_of(P[d], T_end) == region
-            r, idx, dT, T_end = d[keep], idx[keep], dT[keep], T_end[keep]
-            out.put(rows[r], T_end, h[idx] + cp[idx] * dT, s[idx] + cp[idx] / Ta[idx] * dT,
-                    rho[idx], cp[idx], _phase_words(P[r], T_end, region == 1))
+            r, idx, dT, Td, T_end = d[keep], idx[keep], dT[keep], Td[keep], T_end[keep]
+            c, dc = cp[idx], dcp[idx]
+            h_end = h[idx] + dT * (c + 0.5 * dc * dT)
+            s_end = s[idx] + dT * (c / Td + 0.5 * (dc - c / Td) / Td * dT)
+            out.put(rows[r], T_end, h_end, s_end, rho[idx] + drho[idx] * dT, c + dc * dT,
+                    _phase_words(P[r], T_end, region == 1))
         step_on = good & ~done
         a = active[step_on]
         above = f[step_on] > 0
@@ -470,3 +546,18 @@ def _newton(out, rows, P, target, t_sat, edge_value, edge_cp, prop, region, equa
         T_new[outside] = 0.5 * (lower[a][outside] + upper[a][outside])
         T[a] = T_new
         active = a
+
+
+def _halley_step(state, T, target, prop):
+    """Halley's step on T towards h or s = target from a state (h, s, rho, cp, dcp/dT, ...)
+    at T, and the slope dh/dT or ds/dT there (a Newton step where Halley's factor is far
+    from 1)."""
+    h, s, _, cp, dcp = state[:5]
+    if prop == "h":
+        f, slope, curve = h - target, cp, dcp
+    else:
+        f, slope, curve = s - target, cp / T, (dcp - cp / T) / T
+    with np.errstate(invalid="ignore", divide="ignore"):
+        newton = -f / slope
+        factor = 1.0 + 0.5 * newton * curve / slope  # 1 - f f'' / (2 f'^2)
+        return np.where((factor > 0.5) & (factor < 2.0), newton / factor, newton), slope

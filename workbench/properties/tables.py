@@ -388,5 +388,11 @@ def table_for(key, flasher_factory, P_range, T_range, tolerance=None, *,
         return table
 
 
-__all__ = ["PropertyTable", "GasFlasher", "build_table", "measure_error", "table_for",
+def clear_cache() -> None:
+    """Forget every cached table (the next batch builds its own)."""
+    with _LOCK:
+        _TABLES.clear()
+
+
+__all__ = ["clear_cache", "PropertyTable", "GasFlasher", "build_table", "measure_error", "table_for",
            "TOLERANCE", "START_NODES", "MAX_NODES", "SAFETY"]
