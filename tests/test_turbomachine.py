@@ -206,7 +206,7 @@ def test_result_to_row():
     air = wb.Fluid("Air")
     r = wb.compressor(air.state(P=1e5, T=300.0), P_out=2e5, isentropic_efficiency=0.8)
     row = r.to_series()
-    assert row["power_W"] == pytest.approx(r.power)
+    assert row["power"] == pytest.approx(r.power)
     assert row["isentropic_efficiency"] == pytest.approx(0.8)
 
 

@@ -153,6 +153,27 @@ FIELDS: dict[str, ResultField] = {f.name: f for f in (
     # devices and trains
     _f("heat_flow", "heat_flow", "heat flow", "Heat transferred."),
     _f("pressure_drop", "pressure", "pressure drop", "Static pressure loss."),
+    # machine states and balance terms (appended for MachineResult.to_dict)
+    _f("inlet_enthalpy", "specific_enthalpy", "inlet enthalpy",
+       "Static specific enthalpy at the inlet."),
+    _f("inlet_entropy", "specific_entropy", "inlet entropy", "Specific entropy at the inlet."),
+    _f("inlet_density", "density", "inlet density", "Density at the inlet."),
+    _f("outlet_enthalpy", "specific_enthalpy", "outlet enthalpy",
+       "Static specific enthalpy at the outlet."),
+    _f("outlet_entropy", "specific_entropy", "outlet entropy",
+       "Specific entropy at the outlet."),
+    _f("outlet_density", "density", "outlet density", "Density at the outlet."),
+    _f("isentropic_outlet_enthalpy", "specific_enthalpy", "isentropic outlet enthalpy",
+       "Specific enthalpy at the outlet pressure and the inlet entropy."),
+    _f("isentropic_outlet_density", "density", "isentropic outlet density",
+       "Density at the outlet pressure and the inlet entropy."),
+    _f("isentropic_outlet_quality", "dimensionless", "isentropic outlet quality",
+       "Vapour mass fraction at the outlet pressure and the inlet entropy; empty when "
+       "single-phase.", _EFF),
+    _f("elevation_change", "length", "elevation change",
+       "Outlet elevation above the inlet."),
+    _f("specific_heat_loss", "specific_enthalpy", "specific heat loss",
+       "Heat lost to the surroundings per unit mass (positive out)."),
 )}
 
 
