@@ -35,14 +35,12 @@ ISO 13443:1996, Natural gas - Standard reference conditions.
 
 from __future__ import annotations
 
-import math
-
 import numpy as np
 import pandas as pd
 
 from .. import errors
-from ..fluids import Fluid
 from ..machines.turbomachine import STANDARD_GRAVITY, energy_balance
+from ..properties import Fluid
 from .readers import PROBLEM_COLUMN, _numbers
 
 #: Result name -> (unit, how to read it from a MachineResult).  Units are SI.
@@ -59,7 +57,7 @@ RESULTS = {
     "schultz_factor": ("-", lambda r: r.schultz_factor),
     "pressure_ratio": ("-", lambda r: r.pressure_ratio),
     "outlet_temperature": ("K", lambda r: r.outlet.T),
-    "outlet_quality": ("-", lambda r: math.nan if r.outlet.x is None else r.outlet.x),
+    "outlet_quality": ("-", lambda r: r.outlet.quality),
     "mass_flow": ("kg/s", lambda r: r.mass_flow),
     "inlet_volume_flow": ("m^3/s", lambda r: r.inlet_volume_flow),
     "pump_head": ("m", lambda r: r.isentropic_head / STANDARD_GRAVITY),
@@ -118,7 +116,7 @@ def _evaluate_arrays(machine, fluid, mode, mechanical_efficiency, names, p1, t1,
     else:
         m = flow
     with np.errstate(invalid="ignore"):
-        ok = inlet.valid & (p2 > p1 if raises else p2 < p1) & fluid._pressure_ok(p2)
+        ok = inlet.valid & (p2 > p1 if raises else p2 < p1) & fluid.pressure_ok(p2)
         ok &= np.abs(p2 - p1) > 1e-9 * p1
         if mode == "power":
             ok &= second >= 0  # the core wants the measured power as a positive magnitude

@@ -41,9 +41,9 @@ from dataclasses import dataclass, field
 from functools import cached_property
 
 from ..errors import InputError, ReadingsError, SpecificationError
-from ..fluids import State
 from ..polytropic import polytropic_efficiency as _path_efficiency
 from ..polytropic import polytropic_outlet, schultz
+from ..properties import State
 from ..units import optional_si, to_si
 
 #: Standard acceleration of gravity [m/s^2] (CGPM 1901).
@@ -233,7 +233,7 @@ class MachineResult:
         (compression; the magnitude is the same for an expansion).  NaN when the outlet is
         two-phase or the outlet was not measured.
         """
-        if self.rated_from != "outlet" or self.outlet.x is not None:
+        if self.rated_from != "outlet" or self.outlet.two_phase:
             return math.nan
         dh = self.outlet.h - self.inlet.h
         return abs(self.isentropic_efficiency * self.outlet.cp / dh) if dh else math.nan
@@ -252,7 +252,7 @@ class MachineResult:
         notes = []
         wet = [(name, st) for name, st in (("inlet", self.inlet), ("outlet", self.outlet),
                                            ("isentropic outlet", self.isentropic_outlet))
-               if st.x is not None]
+               if st.two_phase]
         if wet:
             where = ", ".join(f"{name} quality {st.x:.3f}" for name, st in wet)
             notes.append(f"the process enters the two-phase region ({where}): Schultz's method "
@@ -276,7 +276,7 @@ class MachineResult:
             d[f"{prefix}_enthalpy_J_per_kg"] = st.h
             d[f"{prefix}_entropy_J_per_kgK"] = st.s
             d[f"{prefix}_density_kg_per_m3"] = st.rho
-            d[f"{prefix}_quality"] = math.nan if st.x is None else st.x
+            d[f"{prefix}_quality"] = st.quality
         d.update({
             "mass_flow_kg_per_s": self.mass_flow,
             "velocity_in_m_per_s": self.velocity_in,
@@ -430,7 +430,7 @@ def energy_balance(kind: str, inlet: State, outlet: State | None = None, *, P_ou
         P2 = outlet.P
     elif P2 is None:
         raise SpecificationError(f"outlet pressure is needed with {modes[0]}")
-    fluid._check_pressure(P2)
+    fluid.check_pressure(P2)
     P1 = inlet.P
     if raises and not P2 > P1:
         raise InputError(
