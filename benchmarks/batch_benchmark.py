@@ -25,7 +25,7 @@ Three comparisons, all in this one process and run:
 The naive loops and the batch give the same efficiencies (the largest difference is printed).
 The machine has 2 cores shared with other work: ratios vary from run to run.  The direct
 ``CoolProp`` calls here are the naive baseline only; the workbench's own flashes all happen in
-``workbench/fluids.py``.
+``workbench/properties/``.
 """
 
 from __future__ import annotations

@@ -6,8 +6,8 @@ import pytest
 from iapws import IAPWS97
 
 from workbench.errors import InputError, SpecificationError
-from workbench.fluids import Fluid
 from workbench.machines.heat_exchanger import cooler, heat_exchanger
+from workbench.properties import Fluid
 from workbench.units import Q_
 
 WATER = Fluid("Water")

@@ -6,8 +6,8 @@ import pytest
 from iapws import IAPWS97
 
 from workbench.errors import InputError, SpecificationError, WorkbenchError
-from workbench.fluids import Fluid
 from workbench.machines.mixer import mixer, splitter
+from workbench.properties import Fluid
 from workbench.units import Q_
 
 WATER = Fluid("Water")

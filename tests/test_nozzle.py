@@ -6,8 +6,8 @@ import pytest
 from iapws import IAPWS97
 
 from workbench.errors import InputError, SpecificationError
-from workbench.fluids import Fluid
 from workbench.machines.nozzle import diffuser, nozzle, velocity_from_area
+from workbench.properties import Fluid
 from workbench.units import Q_
 
 STEAM = Fluid("Water", backend="IF97")

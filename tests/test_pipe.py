@@ -6,9 +6,9 @@ import pytest
 from iapws import IAPWS97
 
 from workbench.errors import InputError, SpecificationError
-from workbench.fluids import Fluid
 from workbench.machines.pipe import darcy_friction_factor, npsh_available, pipe_segment
 from workbench.machines.turbomachine import STANDARD_GRAVITY as G
+from workbench.properties import Fluid
 from workbench.units import Q_
 
 WATER = Fluid("Water")

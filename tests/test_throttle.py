@@ -6,8 +6,8 @@ import pytest
 from iapws import IAPWS97
 
 from workbench.errors import InputError, WorkbenchError
-from workbench.fluids import Fluid
 from workbench.machines.throttle import throttle
+from workbench.properties import Fluid
 
 STEAM = Fluid("Water", backend="IF97")
 AIR = Fluid("Air")

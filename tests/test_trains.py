@@ -6,7 +6,7 @@ import pytest
 from iapws import IAPWS97
 
 from workbench.errors import InputError, SpecificationError, WorkbenchError
-from workbench.fluids import Fluid
+from workbench.properties import Fluid
 from workbench.trains import (
     Admission,
     CompressorStage,

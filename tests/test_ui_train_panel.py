@@ -10,7 +10,7 @@ import pytest
 from iapws import IAPWS97
 
 import workbench as wb
-from workbench.fluids import Fluid
+from workbench.properties import Fluid
 from workbench.trains import intercooled_compressor
 from workbench.ui.train_panel import COMPRESSOR_ENTRIES, RESULTS, TURBINE_ENTRIES, TrainPanel
 

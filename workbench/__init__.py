@@ -28,7 +28,6 @@ from .fieldtest import (  # noqa: E402
     read_readings,
     steady_state_flags,
 )
-from .fluids import Fluid, State, StateArray, available_fluids, normalise_fractions
 from .machines import (
     MachineResult,
     compressor,
@@ -46,6 +45,7 @@ from .machines import (
     throttle,
     turbine,
 )
+from .properties import Fluid, State, StateArray, available_fluids, normalise_fractions
 from .trains import (  # noqa: E402  (trains build on the machines above)
     Admission,
     CompressorStage,

@@ -236,8 +236,8 @@ def demo() -> int:
           "isentropic efficiency 0.80):")
     print(f"  power                  {stage.power / 1e3:10.1f} kW")
     print(f"  exhaust temperature    {stage.outlet.T - 273.15:10.2f} degC")
-    quality = stage.outlet.x
-    shown = "superheated" if quality is None or not 0 <= quality <= 1 else f"{quality:.4f}"
+    quality = stage.outlet.quality
+    shown = f"{quality:.4f}" if stage.outlet.two_phase else "superheated"
     print(f"  exhaust quality        {shown:>10}")
     print(SAFETY_CAUTION)
     return 0

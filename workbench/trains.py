@@ -26,12 +26,12 @@ import math
 from dataclasses import dataclass, field
 
 from .errors import InputError, SpecificationError, WorkbenchError
-from .fluids import State
 from .machines.heat_exchanger import cooler as _cooler
 from .machines.mixer import MASS_BALANCE_TOLERANCE, mixer, splitter
 from .machines.pipe import pipe_segment
 from .machines.throttle import _check_state, _quality, throttle
 from .machines.turbomachine import MachineResult, energy_balance
+from .properties import State
 from .units import optional_si, to_si
 
 MACHINE_KINDS = ("compressor", "turbine", "pump")

@@ -368,7 +368,7 @@ def _evaluate_arrays(options, mode, names, p1, t1, p2, second, flow, flow_name,
     inlet = fluid.states_PT(p1, t1)
     m = mass_flow_from(flow_name or "mass_flow", flow, inlet.rho, rho_standard)
     with np.errstate(invalid="ignore"):
-        ok = inlet.valid & fluid._pressure_ok(p2) & (
+        ok = inlet.valid & fluid.pressure_ok(p2) & (
             balance.pressure_refusal(machine, p1, p2, inlet.phase) == balance.OK)
         if mode == "power":
             ok &= second > 0  # the core refuses a measured power of zero or below

@@ -17,9 +17,9 @@ from typing import NamedTuple
 
 from .. import errors
 from ..fields import FIELDS, ResultField
-from ..fluids import Fluid
 from ..machines.balance import BASES, KINDS
 from ..machines.flows import STANDARD_CONDITIONS
+from ..properties import Fluid
 from ..units import choice, flag, fraction, positive, text
 from .readers import READING_KINDS
 

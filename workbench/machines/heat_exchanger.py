@@ -26,7 +26,7 @@ import math
 from dataclasses import dataclass
 
 from ..errors import InputError, SpecificationError
-from ..fluids import Fluid, State
+from ..properties import Fluid, State
 from ..units import optional_si, to_si
 from .throttle import _check_state, _not_negative, _positive, _quality
 

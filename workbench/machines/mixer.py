@@ -26,7 +26,7 @@ from collections.abc import Sequence
 from dataclasses import dataclass
 
 from ..errors import InputError, SpecificationError
-from ..fluids import State
+from ..properties import State
 from ..units import optional_si, to_si
 from .throttle import _check_state, _positive, _quality
 

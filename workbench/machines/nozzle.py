@@ -28,7 +28,7 @@ import math
 from dataclasses import dataclass
 
 from ..errors import InputError, SpecificationError
-from ..fluids import State
+from ..properties import State
 from ..units import to_si
 from .throttle import _check_below_inlet, _check_state, _not_negative, _positive, _quality
 

@@ -35,7 +35,7 @@ import pint
 from fluids.friction import friction_factor as _fluids_friction_factor
 
 from ..errors import InputError, SpecificationError
-from ..fluids import State
+from ..properties import State
 from ..units import to_si
 from .throttle import _check_state, _not_negative, _positive
 from .turbomachine import STANDARD_GRAVITY

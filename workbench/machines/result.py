@@ -20,9 +20,9 @@ from dataclasses import dataclass, field
 from functools import cached_property
 
 from .. import fields
-from ..fluids import State
 from ..polytropic import polytropic_efficiency as _path_efficiency
 from ..polytropic import schultz
+from ..properties import State
 from .balance import STANDARD_GRAVITY, temperature_sensitivity
 
 #: Fields of :meth:`MachineResult.to_dict`, in order (names of :data:`workbench.fields.FIELDS`).

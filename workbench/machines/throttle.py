@@ -18,11 +18,10 @@ Thermodynamic Properties of Water and Steam (used in the tests).
 
 from __future__ import annotations
 
-import math
 from dataclasses import dataclass
 
 from ..errors import InputError
-from ..fluids import State
+from ..properties import State
 from ..units import to_si
 
 
@@ -56,7 +55,7 @@ def _check_below_inlet(device: str, P_out: float, inlet: State, reason: str) -> 
 
 
 def _quality(state: State) -> float:
-    return math.nan if state.x is None else state.x
+    return state.quality
 
 
 @dataclass(frozen=True, eq=False)
@@ -145,11 +144,11 @@ def throttle(inlet: State, P_out, *, mass_flow=1.0) -> ThrottleResult:
     _check_below_inlet("throttle", P2, inlet, "a throttle valve lowers pressure")
     outlet = inlet.fluid.state_Ph(P2, inlet.h, T_guess=inlet.T)
     dT = outlet.T - inlet.T
-    liquid_in = inlet.phase == "liquid" or (inlet.x is not None and inlet.x <= 1e-9)
+    liquid_in = inlet.phase == "liquid" or (inlet.two_phase and inlet.x <= 1e-9)
     return ThrottleResult(
         inlet=inlet, outlet=outlet, mass_flow=m, pressure_drop=inlet.P - P2,
         temperature_change=dT, mean_joule_thomson_coefficient=-dT / (inlet.P - P2),
-        outlet_quality=_quality(outlet), flashes=bool(liquid_in and outlet.x is not None),
+        outlet_quality=_quality(outlet), flashes=bool(liquid_in and outlet.two_phase),
     )
 
 

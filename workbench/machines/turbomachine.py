@@ -45,8 +45,8 @@ from __future__ import annotations
 from typing import NamedTuple
 
 from ..errors import InputError, ReadingsError, SpecificationError
-from ..fluids import State
 from ..polytropic import polytropic_outlet
+from ..properties import State
 from ..units import choice, fraction, not_negative, optional_si, positive, to_si
 from . import balance as _balance
 from .balance import BASES, KINDS, RAISES_PRESSURE, STANDARD_GRAVITY
@@ -200,7 +200,7 @@ def energy_balance(kind: str, inlet: State, outlet: State | None = None, *, P_ou
                  power, mass_flow, velocity_in, velocity_out, diameter_in, diameter_out,
                  elevation_change, heat_loss, mechanical_efficiency, basis)
     inlet, fluid, P2 = a.inlet, a.inlet.fluid, a.P_out
-    fluid._check_pressure(P2)
+    fluid.check_pressure(P2)
     refused = _balance.pressure_refusal(a.kind, inlet.P, P2, inlet.phase)
     if refused:
         raise _balance.refusal_error(refused, a.kind, inlet, P2)

@@ -40,8 +40,8 @@ import numpy as np
 
 from .. import SAFETY_CAUTION
 from ..errors import InputError, WorkbenchError
-from ..fluids import Fluid, available_fluids, normalise_fractions
 from ..machines import energy_balance
+from ..properties import Fluid, available_fluids, normalise_fractions
 from . import cases as case_files
 from . import charts
 from .common import (
@@ -182,7 +182,7 @@ def entries_in_use(inputs: dict) -> set:
 
 
 def _quality(st):
-    return math.nan if st.x is None else st.x
+    return st.quality
 
 
 #: Results: hook name -> (label, kind, getter of a MachineResult in SI).
@@ -1016,7 +1016,7 @@ class MachinePanel(widgets.VBox):
     def _ok_text(self, result) -> str:
         mode = self._inputs["outlet_fixed_by"]
         text = f"calculated: {result.kind}, outlet fixed by {mode}"
-        if result.outlet.x is not None:
+        if result.outlet.two_phase:
             text += f"; the outlet is wet (quality {result.outlet.x:.4f})"
         for caution in result.cautions:
             text += f"; caution: {caution}"
@@ -1056,7 +1056,7 @@ class MachinePanel(widgets.VBox):
             value = from_si(self.system, get(r), kind, self.ambient)
             unit = unit_label(self.system, kind)
             text = format_number(value, kind)
-            if name == "outlet-quality" and r.outlet.x is None:
+            if name == "outlet-quality" and not r.outlet.two_phase:
                 field.show(f"– ({r.outlet.phase or 'one phase'})")
             else:
                 field.show(text if unit == "-" else f"{text} {unit}")
@@ -1083,7 +1083,7 @@ class MachinePanel(widgets.VBox):
                 f"<td style='padding:2px 10px;text-align:right'>"
                 f"{format_number(float(from_si(self.system, get(st), kind, self.ambient)))}"
                 "</td>" for _name, kind, get in columns)
-            phase = (f"quality {st.x:.4f}" if st.x is not None else st.phase or "one phase")
+            phase = (f"quality {st.x:.4f}" if st.two_phase else st.phase or "one phase")
             rows.append(f"<tr><td style='padding:2px 10px'>{html.escape(title)}</td>{cells}"
                         f"<td style='padding:2px 10px'>{html.escape(phase)}</td></tr>")
         colour = "#8a8a8a" if self.stale else "#222222"

@@ -62,7 +62,7 @@ from ..fieldtest import (
     steady_state_flags,
 )
 from ..fieldtest.readers import READING_KINDS, convert_values
-from ..fluids import Fluid
+from ..properties import Fluid
 from . import test_setup
 from .charts import figure_view, new_figure, refresh_view, sync_figure
 from .common import NumberEntry, caution_banner, message_area

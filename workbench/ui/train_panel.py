@@ -23,7 +23,7 @@ import ipywidgets as widgets
 import plotly.graph_objects as go
 
 from .. import SAFETY_CAUTION
-from ..fluids import Fluid
+from ..properties import Fluid
 from ..trains import extraction_turbine, intercooled_compressor
 from .charts import sync_figure
 from .common import (
@@ -267,7 +267,7 @@ class TrainPanel(widgets.VBox):
         out = train.outlet
         self.results["outlet-temperature"].show(self._fmt(out.T, "temperature"))
         self.results["outlet-quality"].show(
-            "–" if out.x is None else format_number(out.x, "dimensionless"))
+            "–" if not out.two_phase else format_number(out.x, "dimensionless"))
         # Compressor stages: discharge over suction; turbine sections: inlet over exhaust.
         ratios = [r.pressure_ratio if r.kind != "turbine" else 1.0 / r.pressure_ratio
                   for r in train.machines.values()]
@@ -313,7 +313,7 @@ class TrainPanel(widgets.VBox):
                       format_number(from_si(sys_, s.T, "temperature")),
                       format_number(from_si(sys_, s.h, "specific_enthalpy")),
                       format_number(from_si(sys_, s.s, "specific_entropy")),
-                      "–" if s.x is None else f"{s.x:.4f}",
+                      "–" if not s.two_phase else f"{s.x:.4f}",
                       format_number(from_si(sys_, st.mass_flow, "mass_flow"))]
             rows.append("<tr>" + "".join(f"<td style='padding:2px 8px'>{html.escape(v)}</td>"
                                          for v in values) + "</tr>")
