@@ -42,6 +42,7 @@ from .. import SAFETY_CAUTION
 from ..errors import InputError, WorkbenchError
 from ..fluids import Fluid, available_fluids, normalise_fractions
 from ..machines import energy_balance
+from ..machines.flows import STANDARD_CONDITIONS, mass_flow_from, standard_density
 from . import cases as case_files
 from . import charts
 from .common import (
@@ -68,8 +69,7 @@ _ENTRY_FIGURES = {"ambient-pressure": 6}
 
 #: Standard reference conditions of standard volume flow: 15 degC, 1.01325 bar
 #: (ISO 13443, common practice for natural gas).
-STANDARD_TEMPERATURE = 288.15
-STANDARD_PRESSURE = 101325.0
+STANDARD_TEMPERATURE, STANDARD_PRESSURE = STANDARD_CONDITIONS
 
 #: Number entries: hook name -> (input key, label, kind).
 ENTRIES = {
@@ -280,17 +280,11 @@ def compute(inputs: dict, cache: dict | None = None):
             kwargs["polytropic_efficiency"] = inputs["polytropic_efficiency"]
         else:
             kwargs["power"] = inputs["power_W"]
-    flow = inputs["flow_given"]
-    if flow == "mass flow":
-        mass_flow = inputs["mass_flow_kg_per_s"]
-    elif flow == "inlet volume flow":
-        mass_flow = inputs["volume_flow_m3_per_s"] * inlet.rho
-    else:
-        standard = fluid.state_PT(STANDARD_PRESSURE, STANDARD_TEMPERATURE)
-        if standard.phase not in ("gas", "supercritical"):
-            raise InputError(f"standard volume flow is for gases: {fluid.name} is "
-                             f"{standard.phase} at 15 degC and 1.01325 bar; give the mass flow")
-        mass_flow = inputs["volume_flow_m3_per_s"] * standard.rho
+    flow = {"mass flow": "mass_flow", "inlet volume flow": "volume_flow"}.get(
+        inputs["flow_given"], "standard_volume_flow")
+    mass_flow = mass_flow_from(
+        flow, inputs["mass_flow_kg_per_s" if flow == "mass_flow" else "volume_flow_m3_per_s"],
+        inlet.rho, standard_density(fluid) if flow == "standard_volume_flow" else None)
     if inputs["velocity_given"] == "velocities":
         kwargs["velocity_in"] = inputs["velocity_in_m_per_s"]
         kwargs["velocity_out"] = inputs["velocity_out_m_per_s"]
