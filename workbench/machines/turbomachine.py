@@ -205,7 +205,7 @@ def energy_balance(kind: str, inlet: State, outlet: State | None = None, *, P_ou
     >>> r = energy_balance("compressor", air.state(P=1e5, T=300.0), P_out=2e5,
     ...                    isentropic_efficiency=0.8, mass_flow=2.0)
     >>> round(r.outlet.T, 1), round(r.shaft_power / 1e3, 1)
-    (386.1, 173.9)
+    (381.9, 165.0)
     """
     a = _convert(kind, inlet, outlet, P_out, isentropic_efficiency, polytropic_efficiency,
                  power, mass_flow, velocity_in, velocity_out, diameter_in, diameter_out,
