@@ -37,7 +37,7 @@ Examples
 >>> iso = air.state(P=2e5, s=inlet.s)
 >>> b = balance.steady_flow("compressor", inlet, outlet, iso, mass_flow=2.0)
 >>> b.refusal == balance.OK, round(b.isentropic_efficiency, 3)
-(True, 0.828)
+(True, 0.819)
 """
 
 from __future__ import annotations
@@ -289,17 +289,18 @@ def steady_flow(kind: str, inlet, outlet, isentropic, *, mass_flow, velocity_in=
     ----------
     ASME PTC 10-1997; Dixon and Hall (2014), chapter 2.
     """
-    scalar = not isinstance(inlet.h, np.ndarray)
     if stagnation is None:
         if _any(velocity_in) or _any(velocity_out):
             raise SpecificationError("the stagnation states are needed when a velocity is given")
         stagnation = (inlet, outlet, isentropic)
-    args = (kind, inlet, outlet, isentropic, mass_flow, velocity_in, velocity_out,
-            elevation_change, heat_loss, mechanical_efficiency, basis, stagnation, scalar)
-    if scalar:
-        return _steady_flow(*args)
+    if not isinstance(inlet.h, np.ndarray):
+        return _steady_flow(kind, inlet, outlet, isentropic, mass_flow, velocity_in,
+                            velocity_out, elevation_change, heat_loss, mechanical_efficiency,
+                            basis, stagnation, True)
     with np.errstate(invalid="ignore", divide="ignore"):
-        return _steady_flow(*args)
+        return _steady_flow(kind, inlet, outlet, isentropic, mass_flow, velocity_in,
+                            velocity_out, elevation_change, heat_loss, mechanical_efficiency,
+                            basis, stagnation, False)
 
 
 def _any(value) -> bool:

@@ -56,7 +56,7 @@ def standard_density(fluid, conditions=STANDARD_CONDITIONS) -> float:
     --------
     >>> import workbench as wb
     >>> round(standard_density(wb.Fluid("Air")), 4)
-    1.2252
+    1.2255
     """
     temperature, pressure = conditions
     state = fluid.state_PT(float(pressure), float(temperature))

@@ -40,8 +40,9 @@ import numpy as np
 
 from .. import SAFETY_CAUTION
 from ..errors import InputError, WorkbenchError
-from ..machines import energy_balance
 from ..properties import Fluid, available_fluids, normalise_fractions
+from ..machines import energy_balance
+from ..machines.flows import STANDARD_CONDITIONS, mass_flow_from, standard_density
 from . import cases as case_files
 from . import charts
 from .common import (
@@ -68,8 +69,7 @@ _ENTRY_FIGURES = {"ambient-pressure": 6}
 
 #: Standard reference conditions of standard volume flow: 15 degC, 1.01325 bar
 #: (ISO 13443, common practice for natural gas).
-STANDARD_TEMPERATURE = 288.15
-STANDARD_PRESSURE = 101325.0
+STANDARD_TEMPERATURE, STANDARD_PRESSURE = STANDARD_CONDITIONS
 
 #: Number entries: hook name -> (input key, label, kind).
 ENTRIES = {
@@ -182,7 +182,7 @@ def entries_in_use(inputs: dict) -> set:
 
 
 def _quality(st):
-    return st.quality
+    return math.nan if st.x is None else st.x
 
 
 #: Results: hook name -> (label, kind, getter of a MachineResult in SI).
@@ -280,17 +280,11 @@ def compute(inputs: dict, cache: dict | None = None):
             kwargs["polytropic_efficiency"] = inputs["polytropic_efficiency"]
         else:
             kwargs["power"] = inputs["power_W"]
-    flow = inputs["flow_given"]
-    if flow == "mass flow":
-        mass_flow = inputs["mass_flow_kg_per_s"]
-    elif flow == "inlet volume flow":
-        mass_flow = inputs["volume_flow_m3_per_s"] * inlet.rho
-    else:
-        standard = fluid.state_PT(STANDARD_PRESSURE, STANDARD_TEMPERATURE)
-        if standard.phase not in ("gas", "supercritical"):
-            raise InputError(f"standard volume flow is for gases: {fluid.name} is "
-                             f"{standard.phase} at 15 degC and 1.01325 bar; give the mass flow")
-        mass_flow = inputs["volume_flow_m3_per_s"] * standard.rho
+    flow = {"mass flow": "mass_flow", "inlet volume flow": "volume_flow"}.get(
+        inputs["flow_given"], "standard_volume_flow")
+    mass_flow = mass_flow_from(
+        flow, inputs["mass_flow_kg_per_s" if flow == "mass_flow" else "volume_flow_m3_per_s"],
+        inlet.rho, standard_density(fluid) if flow == "standard_volume_flow" else None)
     if inputs["velocity_given"] == "velocities":
         kwargs["velocity_in"] = inputs["velocity_in_m_per_s"]
         kwargs["velocity_out"] = inputs["velocity_out_m_per_s"]
@@ -1016,7 +1010,7 @@ class MachinePanel(widgets.VBox):
     def _ok_text(self, result) -> str:
         mode = self._inputs["outlet_fixed_by"]
         text = f"calculated: {result.kind}, outlet fixed by {mode}"
-        if result.outlet.two_phase:
+        if result.outlet.x is not None:
             text += f"; the outlet is wet (quality {result.outlet.x:.4f})"
         for caution in result.cautions:
             text += f"; caution: {caution}"
@@ -1056,7 +1050,7 @@ class MachinePanel(widgets.VBox):
             value = from_si(self.system, get(r), kind, self.ambient)
             unit = unit_label(self.system, kind)
             text = format_number(value, kind)
-            if name == "outlet-quality" and not r.outlet.two_phase:
+            if name == "outlet-quality" and r.outlet.x is None:
                 field.show(f"– ({r.outlet.phase or 'one phase'})")
             else:
                 field.show(text if unit == "-" else f"{text} {unit}")
@@ -1083,7 +1077,7 @@ class MachinePanel(widgets.VBox):
                 f"<td style='padding:2px 10px;text-align:right'>"
                 f"{format_number(float(from_si(self.system, get(st), kind, self.ambient)))}"
                 "</td>" for _name, kind, get in columns)
-            phase = (f"quality {st.x:.4f}" if st.two_phase else st.phase or "one phase")
+            phase = (f"quality {st.x:.4f}" if st.x is not None else st.phase or "one phase")
             rows.append(f"<tr><td style='padding:2px 10px'>{html.escape(title)}</td>{cells}"
                         f"<td style='padding:2px 10px'>{html.escape(phase)}</td></tr>")
         colour = "#8a8a8a" if self.stale else "#222222"
