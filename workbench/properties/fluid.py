@@ -72,7 +72,7 @@ class Fluid(Saturation, ArrayFlashes, Transport):
     --------
     >>> steam = Fluid("Water", backend="IF97")
     >>> round(steam.state(P=1e5, T=400.0).h)
-    2730301
+    2730398
     """
 
     #: Distinct dew-point flashes after which a fluid builds its dew-line table (a batch).

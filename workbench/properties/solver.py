@@ -357,14 +357,22 @@ def if97_state(fluid, P: float, target: float, prop: str):
             lo = liq.T
         else:
             hi = liq.T
-    if prop == "h":
-        approx = fluid.flash(CP.HmassP_INPUTS, target, P, f"P={P:.6g} Pa, h={target:.6g}")
-    else:
-        approx = fluid.flash(CP.PSmass_INPUTS, P, target, f"P={P:.6g} Pa, s={target:.6g}")
-    T0 = min(max(approx.T, lo * (1 + 1e-9)), hi * (1 - 1e-9))
+    try:
+        if prop == "h":
+            approx = fluid.flash(CP.HmassP_INPUTS, target, P, f"P={P:.6g} Pa, h={target:.6g}")
+        else:
+            approx = fluid.flash(CP.PSmass_INPUTS, P, target, f"P={P:.6g} Pa, s={target:.6g}")
+    except PropertyError as exc:
+        # The library has no backward equation there (parts of region 3, near the critical
+        # point): start in the middle of the bracket; the safeguard finds the root.
+        approx, refusal = None, exc
+    T0 = 0.5 * (lo + hi) if approx is None else approx.T
+    T0 = min(max(T0, lo * (1 + 1e-9)), hi * (1 - 1e-9))
     try:
         return temperature_root(fluid.flash_PT, P, target, prop, T0, lo, hi, rtol=RTOL_IF97)
     except PropertyError:
+        if approx is None:
+            raise refusal from None
         return approx
 
 
@@ -436,8 +444,9 @@ def if97_states(fluid, P, target, prop: str, valid):
         T[gas[0]], lower[gas[0]] = gas[1], gas[2]
         T[liquid[0]], upper[liquid[0]] = liquid[1], liquid[2]
     high = np.flatnonzero(valid & (P >= fluid.P_critical))
-    if len(high):  # start from the backward equations
+    if len(high):  # start from the backward equations, or mid-range where they have none
         T[high] = fluid.array_property("T", "P", P[high], key, target[high])
+        T[high[np.isnan(T[high])]] = 0.5 * (fluid.T_min + fluid.T_max)
     active = np.flatnonzero(valid & (phase != "two-phase"))
     T0 = np.clip(T[active], lower[active] * (1 + 1e-9), upper[active])
 
