@@ -227,7 +227,7 @@ class ThrottleValve(_Step):
                     f"pressure drop of {self.name!r} is {dP / 1e5:.6g} bar; it must lie in "
                     f"(0, {inlet.P / 1e5:.6g}) bar, below the inlet pressure")
             P2 = inlet.P - dP
-        return throttle(inlet, P2, mass_flow=flow)
+        return throttle(inlet, flow, P_out=P2)
 
 
 @dataclass(frozen=True)

@@ -42,6 +42,9 @@ SI_UNITS = {
     "dynamic_viscosity": "Pa*s",
     "time": "s",
     "mass": "kg",
+    "thermal_conductance": "W/K",
+    "entropy_flow": "W/K",
+    "joule_thomson_coefficient": "K/Pa",
 }
 
 

@@ -1,9 +1,9 @@
 """The steady-flow balance kernel of compressors, turbines, pumps and fans.
 
 One set of equations and checks, used by the single-point API
-(:func:`workbench.machines.energy_balance`) with :class:`~workbench.fluids.State` objects and
+(:func:`workbench.machines.energy_balance`) with :class:`~workbench.properties.State` objects and
 floats, and by every batch (:func:`workbench.fieldtest.evaluate`) with
-:class:`~workbench.fluids.StateArray` objects and numpy arrays, one entry per row.
+:class:`~workbench.properties.StateArray` objects and numpy arrays, one entry per row.
 
 One inlet, one outlet, steady state.  Per unit mass, with power absorbed positive::
 

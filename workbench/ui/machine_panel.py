@@ -40,9 +40,9 @@ import numpy as np
 
 from .. import SAFETY_CAUTION
 from ..errors import InputError, WorkbenchError
-from ..properties import Fluid, available_fluids, normalise_fractions
 from ..machines import energy_balance
 from ..machines.flows import STANDARD_CONDITIONS, mass_flow_from, standard_density
+from ..properties import Fluid, available_fluids, normalise_fractions
 from . import cases as case_files
 from . import charts
 from .common import (
