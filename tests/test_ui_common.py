@@ -107,7 +107,9 @@ def test_number_entry_without_significant_keeps_the_old_rounding():
 
 
 def test_sweep_figure_is_changed_in_place():
-    fig = charts.sweep_figure([1.0, 2.0, 3.0], {"a [kW]": [1.0, math.nan, 3.0]}, "x [bar]")
+    fig = charts.make_sweep_figure()
+    charts.update_sweep_figure(fig, [1.0, 2.0, 3.0], {"a [kW]": [1.0, math.nan, 3.0]}, "x [bar]")
+    assert math.isnan(fig.data[0].y[1])  # a failed point is a gap
     charts.update_sweep_figure(fig, [1.0, 2.0], {"a [kW]": [5.0, 6.0], "b [°C]": [7.0, 8.0]},
                                "x [psi]")
     assert len(fig.data) == 2

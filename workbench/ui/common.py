@@ -642,11 +642,7 @@ class Panel(widgets.VBox):
     css_class = "wb-panel"
 
     def __init__(self, children=(), **kwargs):
-        from .. import SAFETY_CAUTION
-
         self._ensure_plumbing()
-        if not hasattr(self, "caution"):
-            self.caution = caution_banner(SAFETY_CAUTION)
         super().__init__(list(children), **kwargs)
         self.add_class(self.css_class)
 
@@ -660,6 +656,9 @@ class Panel(widgets.VBox):
         self.stale = False
         self._result_widgets = []
         self.message = MessageArea()
+        from .. import SAFETY_CAUTION
+
+        self.caution = caution_banner(SAFETY_CAUTION)
 
     def quiet(self):
         """Context manager: set widget values without running this panel's callbacks."""
