@@ -223,6 +223,13 @@ FIELDS: dict[str, ResultField] = {f.name: f for f in (
     _f("velocity_head", "length", "velocity head", "V^2 / (2 g)."),
     _f("npsh_available", "length", "NPSH available",
        "Net positive suction head available, (P - Pv)/(rho g) + V^2/(2 g)."),
+    # train totals (train panel)
+    _f("total_shaft_power", "power", "total shaft power",
+       "Shaft power of every stage or section of a train, a positive magnitude."),
+    _f("heat_removed", "heat_flow", "heat removed by coolers",
+       "Heat removed from the gas by the train's coolers."),
+    _f("stage_pressure_ratios", "dimensionless", "stage pressure ratios",
+       "Pressure ratio of each stage or section, higher over lower pressure.", ".4g"),
 )}
 
 
