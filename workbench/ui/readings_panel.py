@@ -35,15 +35,13 @@ ASME PTC 19.1-2013, Test Uncertainty.
 
 from __future__ import annotations
 
-import base64
-import html
+import functools
 import math
 import pathlib
 from contextlib import contextmanager
 
 import ipywidgets as widgets
 
-from .. import SAFETY_CAUTION
 from ..errors import WorkbenchError
 from ..fieldtest.design import DesignPoint
 from ..fieldtest.readers import READING_KINDS
@@ -66,7 +64,7 @@ from ..fieldtest.setup_file import (
 )
 from . import readings_view as view
 from .charts import figure_view, refresh_view
-from .common import NumberEntry, caution_banner, message_area
+from .common import NumberEntry, Panel, download_link
 from .readings_chart import make_readings_figure, update_readings_figure
 from .readings_entries import (
     LABELS,
@@ -97,7 +95,7 @@ PROGRESS_ROWS = 1000
 _SYSTEM = "bar, degC"  # display units of the number entries
 
 
-class ReadingsPanel(widgets.VBox):
+class ReadingsPanel(Panel):
     """Dashboard panel for a file of field-test readings.
 
     Parameters
@@ -120,18 +118,24 @@ class ReadingsPanel(widgets.VBox):
         Design point (efficiency, shaft power, inlet volume flow, rated speed).
     mechanical_efficiency : float
         Mechanical efficiency [-].
+
+    Attributes
+    ----------
+    result : workbench.fieldtest.session.SessionResult or None
+        The last good evaluation (kept, marked stale, when a later one fails).
+    raw : pandas.DataFrame or None
+        The table of the loaded file (:func:`~workbench.fieldtest.session.read_table`).
     """
+
+    css_class = "wb-panel-test-data"
 
     def __init__(self, file_name: str | None = None, content: bytes | None = None,
                  column_map: dict | None = None, machine: str = "compressor",
                  fluid: str = "Air", backend: str = "HEOS", ambient_pressure: float = 101325.0,
                  design: DesignPoint | None = None, mechanical_efficiency: float = 1.0):
-        #: The table of the loaded file (``read_table``), or None.
+        self._ensure_plumbing()
         self.raw = None
-        #: The last good evaluation (:class:`~workbench.fieldtest.session.SessionResult`).
-        self.session = None
         self.file_name = file_name or ""
-        self._quiet_depth = 0
         self._tolerance_edited: set[str] = set()
         self._build(machine, fluid, backend, ambient_pressure, mechanical_efficiency,
                     design or DesignPoint())
@@ -142,12 +146,11 @@ class ReadingsPanel(widgets.VBox):
 
     # ------------------------------------------------------------------ construction
     def _build(self, machine, fluid, backend, ambient_pressure, mechanical_efficiency, design):
-        self.caution = caution_banner(SAFETY_CAUTION)
-        self.message = message_area()
         self.upload = widgets.FileUpload(accept=".csv,.txt,.xlsx,.xlsm", multiple=False,
                                          description="Readings file")
         self.upload.add_class("wb-input-file")
-        self.upload.observe(self._uploaded, names="value")
+        self.upload.observe(self.guard(self._uploaded, "the upload could not be read: "),
+                            names="value")
         self.machine = dropdown("machine", "", MACHINES, machine, "150px", "0px")
         self.fluid = widgets.Text(value=fluid, description="Fluid",
                                   layout=widgets.Layout(width="760px"),
@@ -164,19 +167,23 @@ class ReadingsPanel(widgets.VBox):
         self.tolerance = {name: row.tolerance for name, row in self.rows.items()}
         self.tolerance_unit = {name: row.tolerance_unit for name, row in self.rows.items()}
         for name, row in self.rows.items():
-            row.column.observe(lambda change, n=name: self._mapping_changed(n, change), "value")
-            row.unit.observe(lambda change, n=name: self._mapping_changed(n, change), "value")
-            row.tolerance.observe(lambda _change, n=name: self._tolerance_typed(n), "value")
+            prefix = f"steady-state tolerance of the {LABELS[name].lower()}: "
+            changed = self.guard(functools.partial(self._mapping_changed, name), prefix)
+            row.column.observe(changed, "value")
+            row.unit.observe(changed, "value")
+            row.tolerance.observe(self.guard(functools.partial(self._tolerance_typed, name)),
+                                  "value")
         self.steady_window = widgets.IntText(
             value=STEADY_WINDOW, description="Steady window (rows)", continuous_update=False,
             style={"description_width": "170px"}, layout=widgets.Layout(width="260px"))
         self.steady_window.add_class("wb-input-steady-window")
-        self.steady_window.observe(lambda _change: self._steady_changed(), names="value")
+        self.steady_window.observe(self.guard(lambda _change: self._steady_changed()),
+                                   names="value")
         self._build_uncertainty_and_design(design)
         self.run = widgets.Button(description="Evaluate all rows", button_style="primary",
                                   layout=widgets.Layout(width="200px", margin="8px 0 4px 0"))
         self.run.add_class("wb-input-evaluate")
-        self.run.on_click(lambda _: self.evaluate())
+        self.run.on_click(self.guard(lambda _: self.evaluate()))
         self.progress = widgets.IntProgress(value=0, min=0, max=100, description="Evaluating",
                                             layout=widgets.Layout(width="400px",
                                                                   display="none"))
@@ -205,7 +212,6 @@ class ReadingsPanel(widgets.VBox):
                 align_items="center")),
             self.message, self.summary, self.figure_view, self.table, self.export],
             layout=widgets.Layout(width="100%", max_width="1400px"))
-        self.add_class("wb-panel-test-data")
 
     def _build_uncertainty_and_design(self, design: DesignPoint):
         def entry(name, label, kind, value, unit=None):
@@ -254,11 +260,12 @@ class ReadingsPanel(widgets.VBox):
         self.setup_upload = widgets.FileUpload(accept=".json", multiple=False,
                                                description="Load setup")
         self.setup_upload.add_class("wb-input-setup-upload")
-        self.setup_upload.observe(self._setup_uploaded, names="value")
+        self.setup_upload.observe(self._setup_uploaded, names="value")  # guarded inside
         self.setup_save = widgets.Button(description="Prepare setup download",
                                          layout=widgets.Layout(width="200px"))
         self.setup_save.add_class("wb-input-setup-save")
-        self.setup_save.on_click(lambda _b: self._refresh_setup_link())
+        self.setup_save.on_click(self.guard(lambda _b: self._refresh_setup_link(),
+                                            "setup not saved: "))
         self.setup_link = widgets.HTML("")
         self.setup_link.add_class("wb-result-setup-link")
         return widgets.VBox([
@@ -283,63 +290,66 @@ class ReadingsPanel(widgets.VBox):
 
     # ------------------------------------------------------------------ the last result
     @property
+    def session(self):
+        """The last good evaluation (same as :attr:`result`), or None."""
+        return self.result
+
+    @property
     def results(self):
         """Result rows of the last good evaluation (``evaluate`` output), or None."""
-        return None if self.session is None else self.session.results
+        return None if self.result is None else self.result.results
 
     @property
     def readings(self):
         """Readings in SI units of the last good evaluation, or None."""
-        return None if self.session is None else self.session.readings
+        return None if self.result is None else self.result.readings
 
     @property
     def steady(self):
         """Steady-state flags of the last good evaluation, or None."""
-        return None if self.session is None else self.session.steady
+        return None if self.result is None else self.result.steady
 
     @property
     def deviation(self):
         """Deviations from the design point of the last good evaluation, or None."""
-        return None if self.session is None else self.session.deviation
+        return None if self.result is None else self.result.deviation
 
     @property
     def uncertainty(self):
         """U95 at the sampled rows of the last good evaluation, or None."""
-        return None if self.session is None else self.session.uncertainty
+        return None if self.result is None else self.result.uncertainty
 
     def summary_numbers(self) -> dict:
         """Counts and means of the last evaluation (SI units; see ``SessionResult.summary``)."""
-        return self.session.summary()
+        return self.result.summary()
 
     def chart_series(self) -> dict:
         """Chart data of the last evaluation (SI units; ``SessionResult.chart_series``)."""
-        return self.session.chart_series()
+        return self.result.chart_series()
 
     def export_frame(self):
         """Readings, status, message, results, deviations and steady flags (SI units)."""
-        return self.session.export_frame()
+        return self.result.export_frame()
 
     # ------------------------------------------------------------------ file and map
     def _uploaded(self, change):
         value = change["new"]
         if not value:
             return
-        try:
-            item = value[0] if isinstance(value, (tuple, list)) else next(iter(value.values()))
-            self.load(item.get("name", "readings.csv"), item["content"])
-        except Exception as exc:  # noqa: BLE001 - a callback never raises into the page
-            self._fail(f"the upload could not be read ({type(exc).__name__})")
+        item = value[0] if isinstance(value, (tuple, list)) else next(iter(value.values()))
+        self.load(item.get("name", "readings.csv"), item["content"])
 
     def load(self, file_name: str, content: bytes) -> bool:
         """Load a file's bytes; the column choices become the file's headers.
 
-        A file that cannot be read (too large, empty, binary, not a table) leaves the panel
-        as it was, its last results marked stale, and the message says why.
+        A file that cannot be read (larger than
+        :data:`~workbench.fieldtest.session.UPLOAD_LIMIT_BYTES`, empty, binary, not a table)
+        leaves the panel as it was, its last results marked stale, and the message says why.
         """
         try:
             raw = read_table(file_name, content)
         except WorkbenchError as exc:
-            self._fail(str(exc))
+            self.fail(exc)
             return False
         self.raw, self.file_name = raw, file_name
         self.title.value = view.title_html(file_name)
@@ -348,8 +358,8 @@ class ReadingsPanel(widgets.VBox):
         for row in self.rows.values():
             row.column.options = options
             row.column.value = NONE
-        self._say(f"Loaded {file_name}: {len(raw)} rows, {len(raw.columns)} columns. "
-                  "Map the columns and press Evaluate.")
+        self.message.show(f"Loaded {file_name}: {len(raw)} rows, {len(raw.columns)} columns. "
+                          "Map the columns and press Evaluate.")
         return True
 
     def set_column_map(self, column_map: dict):
@@ -370,22 +380,19 @@ class ReadingsPanel(widgets.VBox):
     def _mapping_changed(self, name: str, change):
         """A column or unit choice changed: show the tolerance entry in the mapped unit."""
         row = self.rows[name]
-        try:
-            row.show_tolerance()
-            if not row.mapped:
-                return
-            if name in self._tolerance_edited and change["owner"] is row.unit:
-                # the typed tolerance keeps its size in the new unit
-                old = difference_to_si(1.0, change["old"], row.kind, name)
-                new = difference_to_si(1.0, row.unit.value, row.kind, name)
-                self._set_tolerance(name, row.tolerance.value * old / new)
-            elif name not in self._tolerance_edited:
-                self._set_tolerance(name, self.default_tolerance(name))
-        except Exception as exc:  # noqa: BLE001 - a callback never raises into the page
-            self._fail(f"steady-state tolerance of the {LABELS[name].lower()}: {exc}")
+        row.show_tolerance()
+        if not row.mapped:
+            return
+        if name in self._tolerance_edited and change["owner"] is row.unit:
+            # the typed tolerance keeps its size in the new unit
+            old = difference_to_si(1.0, change["old"], row.kind, name)
+            new = difference_to_si(1.0, row.unit.value, row.kind, name)
+            self._set_tolerance(name, row.tolerance.value * old / new)
+        elif name not in self._tolerance_edited:
+            self._set_tolerance(name, self.default_tolerance(name))
 
     def _set_tolerance(self, name: str, value: float):
-        with self._quietly():
+        with self.quiet():
             self.tolerance[name].value = float(f"{value:.6g}") if math.isfinite(value) else 0.0
 
     def default_tolerance(self, name: str) -> float:
@@ -394,28 +401,18 @@ class ReadingsPanel(widgets.VBox):
         return default_tolerance(self.raw, row.column.value, row.unit.value, name,
                                  self.ambient.si)
 
-    def _tolerance_typed(self, name: str):
-        if self._quiet_depth:
-            return
+    def _tolerance_typed(self, name: str, _change=None):
         self._tolerance_edited.add(name)
         self._steady_changed()
 
     def _steady_changed(self):
         """A window or tolerance changed: flag the last readings again (no re-evaluation)."""
-        if self.session is None or self._quiet_depth:
+        if self.result is None:
             return
-        try:
-            names = self.session.setup.column_map
-            tolerances = tolerances_to_si({n: self.tolerance[n].value for n in names},
-                                          {n: self.map_unit[n].value for n in names})
-            self.session = reflag(self.session, self.steady_window.value, tolerances)
-        except WorkbenchError as exc:
-            self._fail(str(exc))
-            return
-        except Exception as exc:  # noqa: BLE001 - a callback never raises into the page
-            self._fail(f"the steady-state check failed ({type(exc).__name__})")
-            return
-        self._show()
+        names = self.result.setup.column_map
+        tolerances = tolerances_to_si({n: self.tolerance[n].value for n in names},
+                                      {n: self.map_unit[n].value for n in names})
+        self._show(reflag(self.result, self.steady_window.value, tolerances))
 
     # ------------------------------------------------------------------ evaluation
     def current_setup(self) -> SessionSetup:
@@ -447,24 +444,19 @@ class ReadingsPanel(widgets.VBox):
     def evaluate(self) -> bool:
         """Evaluate the loaded file with the entries; show the results or a message.
 
-        Returns True when the results were computed and shown.
+        Returns True when the results were computed and shown.  Never raises.
         """
         if self.raw is None:
-            self._fail("load a readings file first")
+            self.fail("load a readings file first")
             return False
         try:
             setup = self.current_setup()
             with self._progress_bar(len(self.raw)) as progress:
                 session = evaluate_session(self.raw, setup, progress=progress)
-        except WorkbenchError as exc:
-            self._fail(str(exc))
+        except Exception as exc:  # noqa: BLE001 - shown in the message area, never raised
+            self.fail(exc)
             return False
-        except Exception as exc:  # noqa: BLE001 - a callback never raises into the page
-            self._fail(f"the evaluation failed ({type(exc).__name__}): check the column map, "
-                       "the units and the fluid")
-            return False
-        self.session = session
-        self._show()
+        self._show(session)
         return True
 
     @contextmanager
@@ -498,7 +490,8 @@ class ReadingsPanel(widgets.VBox):
         return setup_json(self.to_setup())
 
     def load_setup(self, source, name: str = "") -> bool:
-        """Load a setup (dict, JSON text or bytes, or path) onto the loaded readings file.
+        """Load a setup (dict, JSON text or bytes, or a :class:`pathlib.Path`) onto the loaded
+        readings file.
 
         The setup is validated first, against the loaded file's columns, and its fluid and
         column map are tried (:func:`~workbench.fieldtest.session.setup_from_file`); if
@@ -513,35 +506,25 @@ class ReadingsPanel(widgets.VBox):
         """
         try:
             setup = setup_from_file(source, self.raw, self.file_name)
-        except WorkbenchError as exc:  # the panel and its results stay as they were
-            self._say(f"setup not loaded: {exc}", error=True)
-            return False
-        except Exception as exc:  # noqa: BLE001 - a callback never raises into the page
-            self._say(f"setup not loaded: it could not be read ({type(exc).__name__})",
-                      error=True)
+        except Exception as exc:  # noqa: BLE001 - the panel and its results stay as they were
+            self.message.show_error(exc, "setup not loaded: ")
             return False
         try:
             self._apply_setup(setup)
-        except Exception as exc:  # noqa: BLE001 - a callback never raises into the page
-            self._fail(f"the setup was only partly applied ({type(exc).__name__}: {exc}); "
-                       "check the entries")
+        except Exception as exc:  # noqa: BLE001 - shown in the message area, never raised
+            self.fail(exc, "the setup was only partly applied; check the entries: ")
             return False
         made_with = setup.readings_file
         note_text = (f" (made with {made_with})" if made_with and made_with != self.file_name
                      else "")
         loaded = f"Setup {name + ' ' if name else ''}loaded{note_text}."
-        if self.evaluate():
-            rest = self.message.value
-            self._say(loaded)
-            self.message.value += rest
-        else:
-            self.message.value = (f"<div style='color:#333333;padding:2px 0'>"
-                                  f"{html.escape(loaded)}</div>" + self.message.value)
+        good = self.evaluate()
+        self.message.show(f"{loaded} {self.message.text}".strip(), error=not good)
         return True
 
     def _apply_setup(self, setup: SessionSetup):
         """Put a checked setup into the entries (no evaluation, no re-flagging)."""
-        with self._quietly():
+        with self.quiet():
             self.machine.value = setup.machine
             self.backend.value = setup.property_model
             self.fluid.value = setup.fluid
@@ -559,15 +542,16 @@ class ReadingsPanel(widgets.VBox):
             self.steady_window.value = setup.steady_window
             for name, row in self.rows.items():
                 self._tolerance_edited.discard(name)
-                if name not in setup.column_map:
+                if name in setup.column_map:
+                    row.unit.value = setup.units[name]
+                    row.column.value = setup.column_map[name]
+                    tolerance = setup.steady_tolerances[name]
+                    row.tolerance.value = difference_from_si(tolerance, row.unit.value,
+                                                             row.kind, name)
+                    self._tolerance_edited.add(name)
+                else:
                     row.column.value = NONE
-                    continue
-                row.unit.value = setup.units[name]
-                row.column.value = setup.column_map[name]
-            for name, si in setup.steady_tolerances.items():
-                row = self.rows[name]
-                row.tolerance.value = difference_from_si(si, row.unit.value, row.kind, name)
-                self._tolerance_edited.add(name)
+                row.show_tolerance()
 
     def _setup_uploaded(self, change):
         value = change["new"]
@@ -578,71 +562,46 @@ class ReadingsPanel(widgets.VBox):
             content = item["content"] if isinstance(item, dict) else item.content
             name = item.get("name", "") if isinstance(item, dict) else getattr(item, "name", "")
             self.load_setup(bytes(content), name)
-        except Exception as exc:  # noqa: BLE001 - a callback never raises into the page
-            self._say(f"setup not loaded: the upload could not be read "
-                      f"({type(exc).__name__})", error=True)
-        self.setup_upload.value = ()  # so the same file can be loaded again
+        except Exception as exc:  # noqa: BLE001 - shown in the message area, never raised
+            self.message.show_error(exc, "setup not loaded: the upload could not be read: ")
+        with self.quiet():
+            self.setup_upload.value = ()  # so the same file can be loaded again
 
     def _refresh_setup_link(self):
-        """Put the current setup into the download link (a data: URL), or say what is wrong."""
-        try:
-            text = self.setup_json()
-        except WorkbenchError as exc:
-            self._say(f"setup not saved: {exc}", error=True)
-            return
-        except Exception as exc:  # noqa: BLE001 - a callback never raises into the page
-            self._say(f"setup not saved ({type(exc).__name__})", error=True)
-            return
+        """Put the current setup into the download link (a data: URL)."""
         stem = pathlib.Path(self.file_name).stem if self.file_name else "test"
-        self.setup_link.value = _download_link(
-            stem + "-setup.json", "application/json", text.encode("utf-8"),
-            "Download the setup (JSON, SI values)")
+        self.setup_link.value = download_link(self.setup_json(), stem + "-setup.json",
+                                              "Download the setup (JSON, SI values)",
+                                              mime="application/json")
 
     # ------------------------------------------------------------------ display
-    @contextmanager
-    def _quietly(self):
-        """Widget changes made inside do not trigger re-flagging or 'typed' bookkeeping."""
-        self._quiet_depth += 1
+    def set_stale(self, stale: bool) -> None:
+        """Grey the summary (stale) or show it as current."""
+        super().set_stale(stale)
+        if self.result is not None:
+            summary = view.summary_html(self.result)
+            self.summary.value = view.stale(summary) if self.stale else summary
+
+    def _show(self, session):
+        """Show a good session result: summary, charts, table, downloads."""
+        s = session.summary()
+        self.show_result(session, "" if s["flagged"] == 0 else
+                         f"{s['flagged']} row(s) flagged; their messages are in the table "
+                         "and the CSV.")
         try:
-            yield
-        finally:
-            self._quiet_depth -= 1
-
-    def _say(self, text: str, error: bool = False):
-        colour = "#9a3b00" if error else "#333333"
-        self.message.value = (f"<div style='color:{colour};padding:2px 0'>"
-                              f"{html.escape(text)}</div>" if text else "")
-
-    def _fail(self, text: str):
-        self._say(text, error=True)
-        if self.session is not None:
-            self.summary.value = view.stale(self.summary.value)
-
-    def _show(self):
-        s = self.session.summary()
-        self.summary.value = view.summary_html(self.session)
-        self._say("" if s["flagged"] == 0 else
-                  f"{s['flagged']} row(s) flagged; their messages are in the table and the CSV.")
-        try:
-            update_readings_figure(self.figure, self.session.chart_series())
+            update_readings_figure(self.figure, session.chart_series())
             refresh_view(self.figure_view, self.figure)
         except Exception as exc:  # noqa: BLE001 - the table stays good; the chart is not
-            self._say(f"the charts could not be drawn ({type(exc).__name__}: {exc})",
-                      error=True)
-        self.table.value = view.table_html(self.session)
-        self.export.value = _download_link(
-            "results.csv", "text/csv", self.session.export_csv(),
-            f"Download all {s['rows']} rows as CSV") + (
+            self.message.show_error(exc, "the charts could not be drawn: ")
+        self.table.value = view.table_html(session)
+        self.export.value = download_link(
+            session.export_csv(), "results.csv", f"Download all {s['rows']} rows as CSV") + (
             " (SI units; <code>steady</code> and each reading's largest deviation from its "
             "window mean)")
-        self._refresh_setup_link()
-
-
-def _download_link(file_name: str, mime: str, data: bytes, text: str) -> str:
-    """An HTML link that downloads ``data`` (a data: URL)."""
-    encoded = base64.b64encode(data).decode("ascii")
-    return (f"<a download='{html.escape(file_name, quote=True)}' "
-            f"href='data:{mime};base64,{encoded}' target='_blank'>{html.escape(text)}</a>")
+        try:
+            self._refresh_setup_link()
+        except WorkbenchError as exc:
+            self.message.show_error(exc, "setup not saved: ")
 
 
 __all__ = ["DEMO_FILE", "DEMO_GAS", "DEMO_MAP", "PROGRESS_ROWS", "ReadingsPanel"]
