@@ -286,3 +286,62 @@ def test_design_entries_not_given_are_zero_not_nan():
     panel = ReadingsPanel(fluid="Air")
     assert panel.d_speed.field.value == 0.0
     assert panel.current_setup().design.speed is None
+
+
+def upload_value(name: str, content: bytes):
+    """The value an ipywidgets FileUpload holds after a browser upload."""
+    return ({"name": name, "type": "", "size": len(content), "content": memoryview(content),
+             "last_modified": datetime.datetime(2026, 3, 14)},)
+
+
+def test_a_broken_file_keeps_the_last_table_marked_stale():
+    panel = ReadingsPanel.demo()
+    table, results = panel.table.value, panel.results
+    for name, content, words in (
+            ("junk.csv", b"\x00\x9f\x12" * 50, "not a text (CSV) file"),
+            ("cut.xlsx", b"PK\x03\x04 truncated", "could not be read as an Excel workbook"),
+            ("empty.csv", b"", "is empty"),
+            ("header.csv", b"a,b,c\n", "no rows")):
+        panel.upload.value = upload_value(name, content)  # no exception may escape
+        assert words in panel.message.text and name in panel.message.text
+        assert panel.message.level == "error"
+        assert panel.table.value == table and panel.results is results
+        assert "wb-stale" in panel.summary.value
+    # the last good file is still loaded: evaluating again refreshes the same results
+    assert panel.file_name == DEMO_FILE.name and panel.evaluate() is True
+    assert "wb-fresh" in panel.summary.value and panel.table.value == table
+
+
+def test_a_file_over_the_upload_limit_gets_a_message():
+    from workbench.fieldtest.session import UPLOAD_LIMIT_BYTES
+
+    panel = ReadingsPanel.demo()
+    table = panel.table.value
+    panel.upload.value = upload_value("huge.csv", bytes(UPLOAD_LIMIT_BYTES + 1))
+    assert "largest file accepted is 20 MiB" in panel.message.text
+    assert panel.table.value == table and "wb-stale" in panel.summary.value
+    assert panel.file_name == DEMO_FILE.name  # the demo file stays loaded
+
+
+def test_a_large_file_shows_a_progress_bar(monkeypatch):
+    import workbench.ui.readings_panel as module
+
+    frame = pd.DataFrame({"p1": [1.0] * 40, "t1": [20.0] * 40, "p2": [2.0] * 40,
+                          "t2": [90.0] * 40, "m": [1.0] * 40})
+    panel = ReadingsPanel("air.csv", frame.to_csv(index=False).encode(), fluid="Air")
+    panel.set_column_map({"inlet_pressure": ("p1", "bar(a)"),
+                          "inlet_temperature": ("t1", "degC"),
+                          "outlet_pressure": ("p2", "bar(a)"),
+                          "outlet_temperature": ("t2", "degC"), "mass_flow": ("m", "kg/s")})
+    assert "wb-result-progress" in panel.progress._dom_classes
+    seen = []
+    panel.progress.observe(lambda change: seen.append(
+        (change["new"], panel.progress.layout.display)), names="value")
+    assert panel.evaluate() is True  # 40 rows: below PROGRESS_ROWS, no bar
+    assert seen == [] and panel.progress.layout.display == "none"
+    monkeypatch.setattr(module, "PROGRESS_ROWS", 20)  # 40 rows are now a large file
+    assert panel.evaluate() is True
+    values = [v for v, _ in seen]
+    assert values[-1] == 100 and values == sorted(values) and len(values) >= 3
+    assert all(display is None for _, display in seen)  # shown while it moved
+    assert panel.progress.layout.display == "none"  # hidden when done
