@@ -9,10 +9,22 @@ from __future__ import annotations
 
 import math
 import re
+import sys
 from dataclasses import dataclass
 
 import numpy as np
-import pint
+
+# pint imports dask.base at import time when dask is installed (for pint Quantities wrapping
+# dask arrays, which the workbench does not use); that costs the dashboards about half a
+# second per kernel.  Hide dask from pint while pint loads, unless dask is already imported.
+_HIDE_DASK = "dask" not in sys.modules
+if _HIDE_DASK:
+    sys.modules["dask"] = None  # type: ignore[assignment]  # makes "import dask" fail
+try:
+    import pint
+finally:
+    if _HIDE_DASK:
+        del sys.modules["dask"]
 
 from .errors import InputError
 
