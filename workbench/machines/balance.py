@@ -407,7 +407,9 @@ def refusal_error(code: int, kind: str, inlet, P_out: float, *, basis: str = "st
     return ReadingsError(f"{REFUSALS.get(code, 'refused')}: check the readings")
 
 
-__all__ = ["BASES", "Balance", "EFFICIENCY_TOLERANCE", "KINDS", "OK", "PRESSURE_TOLERANCE",
-           "RAISES_PRESSURE", "REFUSALS", "STANDARD_GRAVITY", "fluid_work_from_shaft",
+__all__ = ["BASES", "Balance", "EFFICIENCY_ABOVE_ONE", "EFFICIENCY_TOLERANCE", "KINDS",
+           "NO_PRESSURE_CHANGE", "NO_WORK", "OK", "PRESSURE_TOLERANCE",
+           "PUMP_INLET_NOT_LIQUID", "RAISES_PRESSURE", "REFUSALS", "STANDARD_GRAVITY",
+           "STATE_NOT_FOUND", "WRONG_DIRECTION", "WRONG_ENTHALPY_SIDE", "fluid_work_from_shaft",
            "isentropic_efficiency", "outlet_enthalpy_from_power", "pressure_checks",
            "pressure_refusal", "refusal_error", "steady_flow", "temperature_sensitivity"]

@@ -290,6 +290,12 @@ class MachineResult:
         number of :data:`RESULT_FIELDS` under its field name (SI units; units, labels and
         formats in :data:`workbench.fields.FIELDS`).
 
+        The keys are field names without a unit suffix (``power``, ``inlet_pressure``,
+        ``isentropic_head``); earlier versions used suffixed keys (``power_W``,
+        ``inlet_pressure_Pa``, ``isentropic_head_J_per_kg``).  The isentropic outlet's
+        pressure and entropy are no longer repeated (they are ``outlet_pressure`` and
+        ``inlet_entropy``).
+
         Examples
         --------
         >>> import workbench as wb
