@@ -9,6 +9,12 @@ engineer's judgement.
 """
 
 from . import fieldtest  # noqa: E402
+from .curves import (  # noqa: E402
+    PerformanceCurve,
+    SystemCurve,
+    operating_point,
+    pump_acceptance,
+)
 from .errors import (
     CaseFileError,
     InputError,
@@ -84,4 +90,5 @@ __all__ = [
     "fieldtest", "DesignPoint", "InstrumentUncertainty", "affinity_correction",
     "compare_with_design", "evaluate", "monte_carlo_uncertainty", "propagate_uncertainty",
     "read_readings", "steady_state_flags",
+    "PerformanceCurve", "SystemCurve", "operating_point", "pump_acceptance",
 ]

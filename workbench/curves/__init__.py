@@ -1,0 +1,20 @@
+"""Machine curves, system curves, acceptance tests and similarity: the judgement against the
+guarantee.
+
+- :mod:`.characteristic`: :class:`PerformanceCurve` (datasheet points, fit, affinity laws,
+  surge margin);
+- :mod:`.system`: :class:`SystemCurve`, :class:`PipeSection`, :func:`operating_point`
+  (intersection, throttle, speed change, NPSH margin);
+- :mod:`.pump_acceptance`: :func:`pump_acceptance` after ISO 9906:2012;
+- :mod:`.fan`: fan pressure, fan static pressure, air power, compressibility coefficient and
+  efficiencies after ISO 5801;
+- :mod:`.similarity`: :func:`compressor_similarity` after ASME PTC 10-1997.
+"""
+
+from .characteristic import FITS, HEAD_KINDS, PerformanceCurve
+from .pump_acceptance import GRADES, PumpAcceptanceResult, ToleranceGrade, pump_acceptance
+from .system import OperatingPoint, PipeSection, SystemCurve, operating_point
+
+__all__ = ["FITS", "GRADES", "HEAD_KINDS", "OperatingPoint", "PerformanceCurve", "PipeSection",
+           "PumpAcceptanceResult", "SystemCurve", "ToleranceGrade", "operating_point",
+           "pump_acceptance"]
