@@ -12,9 +12,19 @@ guarantee.
 """
 
 from .characteristic import FITS, HEAD_KINDS, PerformanceCurve
+from .fan import FanTestResult, compressibility_coefficient, fan_test, mach_factor
 from .pump_acceptance import GRADES, PumpAcceptanceResult, ToleranceGrade, pump_acceptance
+from .similarity import (
+    CompressorCondition,
+    CompressorSimilarityResult,
+    SimilarityCheck,
+    SimilarityGroups,
+    compressor_similarity,
+)
 from .system import OperatingPoint, PipeSection, SystemCurve, operating_point
 
-__all__ = ["FITS", "GRADES", "HEAD_KINDS", "OperatingPoint", "PerformanceCurve", "PipeSection",
-           "PumpAcceptanceResult", "SystemCurve", "ToleranceGrade", "operating_point",
-           "pump_acceptance"]
+__all__ = ["FITS", "GRADES", "HEAD_KINDS", "CompressorCondition", "CompressorSimilarityResult",
+           "FanTestResult", "OperatingPoint", "PerformanceCurve", "PipeSection",
+           "PumpAcceptanceResult", "SimilarityCheck", "SimilarityGroups", "SystemCurve",
+           "ToleranceGrade", "compressibility_coefficient", "compressor_similarity",
+           "fan_test", "mach_factor", "operating_point", "pump_acceptance"]
