@@ -103,8 +103,9 @@ class PerformanceCurve:
         NPSH required at each flow [m], positive (pumps).
     fit : {"polynomial", "pchip"}
         Least-squares polynomial of ``degree`` or monotone PCHIP interpolant (module notes).
-    degree : int
-        Degree of the polynomial fit, 1 .. min(6, points - 1); ignored by ``"pchip"``.
+    degree : int, optional
+        Degree of the polynomial fit, 1 .. min(6, points - 1); default min(3, points - 1);
+        ignored by ``"pchip"``.
     min_flow : float or Quantity, optional
         Surge (compressor, fan) or minimum continuous flow (pump) limit [m^3/s] at this speed;
         default the first point.
@@ -133,7 +134,7 @@ class PerformanceCurve:
     """
 
     def __init__(self, flow, head, *, speed, machine="pump", efficiency=None, power=None,
-                 npsh_required=None, fit="polynomial", degree=3, min_flow=None, max_flow=None,
+                 npsh_required=None, fit="polynomial", degree=None, min_flow=None, max_flow=None,
                  name="curve"):
         self.machine = choice(machine, tuple(HEAD_KINDS), "machine kind")
         self.name = text(name, "curve name")
@@ -166,6 +167,8 @@ class PerformanceCurve:
                 raise InputError(f"{key.replace('_', ' ')} must lie in {allowed} at every "
                                  f"point; got {array.min():g} .. {array.max():g}")
             data[key] = array
+        if degree is None:
+            degree = min(3, Q.size - 1)
         self.degree = count(degree, "fit degree", low=1, high=min(6, Q.size - 1))
         self.flow = Q
         self._data = data
