@@ -67,7 +67,11 @@ from scipy.optimize import brentq
 
 from ..errors import InputError, ReadingsError, WorkbenchError
 from ..fields import row
-from ..fieldtest.uncertainty import UncertaintyReport, propagate_uncertainty
+from ..fieldtest.uncertainty import (
+    InstrumentUncertainty,
+    UncertaintyReport,
+    propagate_uncertainty,
+)
 from ..fluids import Fluid
 from ..machines import compressor
 from ..polytropic import polytropic_outlet
@@ -599,8 +603,19 @@ def _uncertainty(test_c, spec_c, D, b, eps, method, correct, uncertainties):
     if not isinstance(uncertainties, dict):
         raise InputError("uncertainties must be a dict of reading name -> (systematic, "
                          "random)")
-    for key in uncertainties:
+    checked = {}
+    for key, value in uncertainties.items():
         choice(key, READINGS, "uncertainty reading")
+        if isinstance(value, InstrumentUncertainty):
+            value = (value.systematic, value.random)
+        if not isinstance(value, (tuple, list)) or len(value) != 2:
+            raise InputError(f"uncertainty of {key} must be (systematic, random) or an "
+                             f"InstrumentUncertainty, not {value!r:.60}")
+        kind = _READING_KINDS[key]
+        if kind == "temperature":
+            kind = "temperature_difference"
+        checked[key] = tuple(to_si(v, kind, f"{part} uncertainty of {key}", low=0.0)
+                             for v, part in zip(value, ("systematic", "random")))
     results = ("polytropic_head", "polytropic_efficiency", "power")
 
     def model(frame):
@@ -617,7 +632,7 @@ def _uncertainty(test_c, spec_c, D, b, eps, method, correct, uncertainties):
                              "message": str(exc)})
         return pd.DataFrame(rows)
 
-    return propagate_uncertainty(test_c.readings(), uncertainties, results, model=model)
+    return propagate_uncertainty(test_c.readings(), checked, results, model=model)
 
 
 __all__ = ["CompressorCondition", "CompressorSimilarityResult", "DEFAULT_LIMITS",
