@@ -11,6 +11,12 @@ guarantee.
 - :mod:`.similarity`: :func:`compressor_similarity` after ASME PTC 10-1997.
 """
 
+from .cases import (
+    CurvesCaseResult,
+    evaluate_curves_case,
+    list_curves_demos,
+    load_curves_demo,
+)
 from .characteristic import FITS, HEAD_KINDS, PerformanceCurve
 from .fan import FanTestResult, compressibility_coefficient, fan_test, mach_factor
 from .pump_acceptance import GRADES, PumpAcceptanceResult, ToleranceGrade, pump_acceptance
@@ -23,7 +29,8 @@ from .similarity import (
 )
 from .system import OperatingPoint, PipeSection, SystemCurve, operating_point
 
-__all__ = ["FITS", "GRADES", "HEAD_KINDS", "CompressorCondition", "CompressorSimilarityResult",
+__all__ = ["CurvesCaseResult", "evaluate_curves_case", "list_curves_demos", "load_curves_demo",
+           "FITS", "GRADES", "HEAD_KINDS", "CompressorCondition", "CompressorSimilarityResult",
            "FanTestResult", "OperatingPoint", "PerformanceCurve", "PipeSection",
            "PumpAcceptanceResult", "SimilarityCheck", "SimilarityGroups", "SystemCurve",
            "ToleranceGrade", "compressibility_coefficient", "compressor_similarity",
