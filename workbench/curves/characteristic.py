@@ -127,8 +127,9 @@ class PerformanceCurve:
 
     Examples
     --------
+    >>> import workbench as wb
     >>> curve = PerformanceCurve([0.0, 0.05, 0.1, 0.15], [50.0, 48.0, 42.0, 32.0],
-    ...                          speed=Q_(1480, "rpm"), fit="polynomial", degree=2)
+    ...                          speed=wb.Q_(1480, "rpm"), fit="polynomial", degree=2)
     >>> round(float(curve.head(0.1)), 1)
     42.0
     """
@@ -332,7 +333,7 @@ class PerformanceCurve:
         Examples
         --------
         >>> curve = PerformanceCurve([0.0, 0.05, 0.1], [50.0, 48.0, 42.0], speed=150.0)
-        >>> round(curve.at_speed(75.0).head(0.05), 3)
+        >>> round(curve.at_speed(75.0).head(0.025), 3)  # 48 m at 0.05 m3/s, half speed
         12.0
         """
         N = positive(speed, "rotational_speed", "new speed")

@@ -252,7 +252,8 @@ def fan_test(inlet, *, outlet_pressure, volume_flow, inlet_area, outlet_area, po
 
     Examples
     --------
-    >>> air = Fluid("Air").state(P=100000.0, T=293.15)
+    >>> import workbench as wb
+    >>> air = wb.Fluid("Air").state(P=100000.0, T=293.15)
     >>> r = fan_test(air, outlet_pressure=101500.0, volume_flow=5.0, inlet_area=1.0,
     ...              outlet_area=0.5, power=12000.0)
     >>> round(r.fan_efficiency, 3)

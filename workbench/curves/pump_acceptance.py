@@ -306,8 +306,9 @@ def pump_acceptance(test_flow, test_head, *, test_speed, rated_speed, guarantee_
 
     Examples
     --------
+    >>> import workbench as wb
     >>> result = pump_acceptance([0.02, 0.04, 0.06, 0.08], [52.0, 49.0, 44.0, 36.0],
-    ...                          test_speed=Q_(1450, "rpm"), rated_speed=Q_(1480, "rpm"),
+    ...                          test_speed=wb.Q_(1450, "rpm"), rated_speed=wb.Q_(1480, "rpm"),
     ...                          guarantee_flow=0.06, guarantee_head=45.0, grade="2B")
     >>> result.verdict
     'pass'

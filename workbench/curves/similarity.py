@@ -565,7 +565,7 @@ def compressor_similarity(test, specified, *, diameter, width, test_type="2",
 
     Examples
     --------
-    >>> n2 = Fluid("Nitrogen")
+    >>> n2 = Fluid("Nitrogen")  # workbench.Fluid
     >>> test = CompressorCondition(n2, 1.0e5, 300.0, 2.2e5, 392.0, 0.8, 1200.0)
     >>> result = compressor_similarity(test, test, diameter=0.4, width=0.02)
     >>> result.within_limits

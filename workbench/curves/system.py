@@ -158,7 +158,8 @@ class SystemCurve:
 
     Examples
     --------
-    >>> water = Fluid("Water").state(P=101325.0, T=293.15)
+    >>> import workbench as wb
+    >>> water = wb.Fluid("Water").state(P=101325.0, T=293.15)
     >>> system = SystemCurve(water, static_head=12.0,
     ...                      sections=[PipeSection(0.1, length=80.0, loss_coefficient=4.0)])
     >>> round(system.head(0.0), 3)
@@ -383,7 +384,13 @@ def operating_point(curve: PerformanceCurve, system: SystemCurve, *, speed=None,
 
     Examples
     --------
-    >>> point = operating_point(pump_curve, system, throttle=20.0)  # doctest: +SKIP
+    >>> import workbench as wb
+    >>> water = wb.Fluid("Water").state(P=101325.0, T=293.15)
+    >>> system = SystemCurve(water, static_head=12.0, sections=[PipeSection(0.15, length=80.0)])
+    >>> pump = wb.PerformanceCurve([0.0, 0.05, 0.1], [40.0, 36.0, 24.0], speed=150.0)
+    >>> point = operating_point(pump, system, throttle=20.0)
+    >>> round(point.volume_flow, 4)
+    0.0668
     """
     if not isinstance(curve, PerformanceCurve):
         raise InputError(f"curve must be a PerformanceCurve, not {type(curve).__name__}")
