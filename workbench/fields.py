@@ -181,6 +181,9 @@ FIELDS: dict[str, ResultField] = {f.name: f for f in (
     _f("head_deviation", "dimensionless", "head deviation",
        "Relative departure of the test curve's head at the guarantee flow from the guarantee "
        "head.", _EFF),
+    _f("flow_head_margin", "dimensionless", "flow and head margin",
+       "Signed margin of the test curve to the nearer limit of the tolerance cross, over the "
+       "guaranteed value (positive passes).", _EFF),
     _f("efficiency_margin", "dimensionless", "efficiency margin",
        "Test efficiency minus the lowest acceptable efficiency, over the guaranteed "
        "efficiency (positive passes).", _EFF),

@@ -69,7 +69,7 @@ _KINDS = {"efficiency": "dimensionless", "power": "power", "npsh_required": "len
 
 
 def _points(values, kind, name, size):
-    array = to_si_array(values, kind, name, allow_nan=False)
+    array = to_si_array(values, kind, name, allow_nan=False).copy()
     if array.size != size:
         raise InputError(f"{name} has {array.size} points but the curve has {size} flows: give "
                          "one value per flow")
@@ -140,7 +140,7 @@ class PerformanceCurve:
         self.machine = choice(machine, tuple(HEAD_KINDS), "machine kind")
         self.name = text(name, "curve name")
         self.fit = choice(fit, FITS, "curve fit")
-        Q = to_si_array(flow, "volume_flow", "curve flow", allow_nan=False)
+        Q = to_si_array(flow, "volume_flow", "curve flow", allow_nan=False).copy()
         if Q.size < 3:
             raise InputError(f"curve flow has {Q.size} points: a curve needs at least 3")
         if Q.size > 200:
@@ -180,6 +180,8 @@ class PerformanceCurve:
             raise InputError(f"minimum flow limit {self.min_flow:g} m**3/s must be below the "
                              f"maximum flow limit {self.max_flow:g} m**3/s")
         self.residuals = {key: self._fits[key](Q) - values for key, values in data.items()}
+        for array in (Q, *data.values(), *self.residuals.values()):
+            array.flags.writeable = False  # a curve does not change once fitted
 
     def _make_fit(self, values):
         if self.fit == "pchip":

@@ -184,12 +184,11 @@ class PumpAcceptanceResult:
     def to_dict(self) -> dict:
         """Flat dict of the verdict (SI values; field names from workbench.fields)."""
         out = {"grade": self.grade.name, "verdict": self.verdict}
-        out.update(row(self, ("head_deviation", "flow_deviation", "efficiency_margin",
-                              "power_margin")))
+        out.update(row(self, ("head_deviation", "flow_deviation", "flow_head_margin",
+                              "efficiency_margin", "power_margin")))
         out.update({
             "speed": self.rated_speed, "volume_flow": self.guarantee_flow,
-            "total_head": self.guarantee_head, "flow_head_margin": self.flow_head_margin,
-            "flow_head_passes": self.flow_head_passes,
+            "total_head": self.guarantee_head, "flow_head_passes": self.flow_head_passes,
             "efficiency": self.test_efficiency, "power": self.test_power,
             "cautions": "; ".join(self.cautions)})
         return out
