@@ -20,6 +20,7 @@ from .cases import (
 from .characteristic import FITS, HEAD_KINDS, PerformanceCurve
 from .fan import FanTestResult, compressibility_coefficient, fan_test, mach_factor
 from .pump_acceptance import GRADES, PumpAcceptanceResult, ToleranceGrade, pump_acceptance
+from .report import curves_report, write_curves_report
 from .similarity import (
     CompressorCondition,
     CompressorSimilarityResult,
@@ -34,4 +35,5 @@ __all__ = ["CurvesCaseResult", "evaluate_curves_case", "list_curves_demos", "loa
            "FanTestResult", "OperatingPoint", "PerformanceCurve", "PipeSection",
            "PumpAcceptanceResult", "SimilarityCheck", "SimilarityGroups", "SystemCurve",
            "ToleranceGrade", "compressibility_coefficient", "compressor_similarity",
-           "fan_test", "mach_factor", "operating_point", "pump_acceptance"]
+           "curves_report", "fan_test", "mach_factor", "operating_point", "pump_acceptance",
+           "write_curves_report"]
