@@ -95,3 +95,25 @@ def test_nice_ticks_cover_the_range():
     assert ticks[0] <= 0.0 and ticks[-1] >= 973.0
     steps = {round(b - a, 9) for a, b in zip(ticks, ticks[1:])}
     assert len(steps) == 1 and steps.pop() in (100.0, 200.0, 250.0)
+
+
+def test_chart_data_in_display_units():
+    from workbench.curves.charts import case_charts
+
+    result = evaluate_curves_case(load_curves_demo("pump-loop-demo"))
+    charts = {c.key: c for c in case_charts(result)}
+    assert set(charts) == {"head", "npsh", "acceptance"}
+    cross = charts["acceptance"].crosses[0]
+    ql, qh, hl, hh = result.acceptance.cross
+    # 1 m3/s = 3600 m3/h (definition of the hour); heads stay in metres
+    assert (cross.x_low, cross.x_high) == pytest.approx((ql * 3600, qh * 3600))
+    assert (cross.y_low, cross.y_high) == pytest.approx((hl, hh))
+    op = [s for s in charts["head"].series if s.name == "operating point"][0]
+    assert op.x[0] == pytest.approx(result.operating_point.volume_flow * 3600)
+    comp = evaluate_curves_case(load_curves_demo("compressor-co2-shop-test-demo"))
+    head = {c.key: c for c in case_charts(comp)}["compressor_head"]
+    test = [s for s in head.series if s.name.startswith("test converted")][0]
+    # J/kg to kJ/kg; the error bar is the propagated U95
+    assert test.y[0] == pytest.approx(comp.similarity.converted.polytropic_head / 1e3)
+    assert test.y_error[0] == pytest.approx(
+        comp.similarity.uncertainty.expanded["polytropic_head"] / 1e3)

@@ -18,6 +18,7 @@ from .cases import (
     load_curves_demo,
 )
 from .characteristic import FITS, HEAD_KINDS, PerformanceCurve
+from .charts import Chart, case_charts
 from .fan import FanTestResult, compressibility_coefficient, fan_test, mach_factor
 from .pump_acceptance import GRADES, PumpAcceptanceResult, ToleranceGrade, pump_acceptance
 from .report import curves_report, write_curves_report
@@ -30,7 +31,7 @@ from .similarity import (
 )
 from .system import OperatingPoint, PipeSection, SystemCurve, operating_point
 
-__all__ = ["CurvesCaseResult", "evaluate_curves_case", "list_curves_demos", "load_curves_demo",
+__all__ = ["Chart", "case_charts", "CurvesCaseResult", "evaluate_curves_case", "list_curves_demos", "load_curves_demo",
            "FITS", "GRADES", "HEAD_KINDS", "CompressorCondition", "CompressorSimilarityResult",
            "FanTestResult", "OperatingPoint", "PerformanceCurve", "PipeSection",
            "PumpAcceptanceResult", "SimilarityCheck", "SimilarityGroups", "SystemCurve",

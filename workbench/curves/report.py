@@ -10,36 +10,15 @@ field table (:data:`workbench.fields.FIELDS`).
 from __future__ import annotations
 
 import html
-import math
 from datetime import datetime, timezone
 from pathlib import Path
-
-import numpy as np
 
 from ..errors import InputError
 from ..fields import FIELDS
 from .cases import CurvesCaseResult
 from .characteristic import HEAD_WORDS
-from .svg import Cross, Series, line_chart
-
-_TWO_PI = 2 * math.pi
-#: Display unit and conversion from SI of each kind of quantity.
-DISPLAY = {
-    "volume_flow": ("m³/h", lambda v: v * 3600.0),
-    "power": ("kW", lambda v: v / 1e3),
-    "heat_flow": ("kW", lambda v: v / 1e3),
-    "specific_energy": ("kJ/kg", lambda v: v / 1e3),
-    "specific_enthalpy": ("kJ/kg", lambda v: v / 1e3),
-    "pressure": ("bar", lambda v: v / 1e5),
-    "temperature": ("°C", lambda v: v - 273.15),
-    "rotational_speed": ("rpm", lambda v: v * 60.0 / _TWO_PI),
-    "length": ("m", lambda v: v),
-    "velocity": ("m/s", lambda v: v),
-    "mass_flow": ("kg/s", lambda v: v),
-    "density": ("kg/m³", lambda v: v),
-    "dimensionless": ("-", lambda v: v),
-}
-_HEAD_KIND = {"pump": "length", "fan": "pressure", "compressor": "specific_energy"}
+from .charts import case_charts, header, show, unit
+from .svg import render_svg
 
 CSS = """
 body{font-family:sans-serif;max-width:980px;margin:2em auto;color:#1a1a1a;line-height:1.4}
@@ -68,27 +47,6 @@ REFERENCES = [
 ]
 
 
-def _unit(kind):
-    return DISPLAY.get(kind, ("", lambda v: v))
-
-
-def show(value, kind: str, fmt: str = ".4g") -> str:
-    """A SI value as display text in the report's unit (an en dash for None or NaN)."""
-    if value is None or isinstance(value, str):
-        return "\u2013" if value is None else html.escape(value)
-    if isinstance(value, (bool, np.bool_)):
-        return "yes" if value else "no"
-    value = float(value)
-    if not math.isfinite(value):
-        return "\u2013"
-    return format(_unit(kind)[1](value), fmt)
-
-
-def _header(kind, label):
-    unit = _unit(kind)[0]
-    return f"{label} [{unit}]" if unit and unit != "-" else f"{label} [-]"
-
-
 def _table(headers, rows) -> str:
     head = "".join(f"<th>{html.escape(str(h))}</th>" for h in headers)
     body = "".join("<tr>" + "".join(f"<td>{c}</td>" for c in row) + "</tr>" for row in rows)
@@ -102,7 +60,7 @@ def _fields_table(values: dict, names, labels=None) -> str:
         fmt = ".4f" if f.fmt == ".4f" else ".5g"
         label = (labels or {}).get(name, f.label)
         rows.append([html.escape(label), show(values.get(name), f.kind, fmt),
-                     html.escape(_unit(f.kind)[0])])
+                     html.escape(unit(f.kind))])
     return _table(["quantity", "value", "unit"], rows)
 
 
@@ -112,18 +70,13 @@ def _verdict(ok) -> str:
     return '<span class="pass">pass</span>' if ok else '<span class="fail">fail</span>'
 
 
-def _convert(kind, values):
-    f = _unit(kind)[1]
-    return tuple(f(float(v)) for v in values)
-
-
 def _curve_table(curve) -> str:
     quantities = curve.quantities
     kinds = {"head": curve.head_kind, "efficiency": "dimensionless", "power": "power",
              "npsh_required": "length"}
     words = {"head": HEAD_WORDS[curve.machine], "efficiency": "efficiency",
              "power": "power input", "npsh_required": "NPSH required"}
-    headers = [_header("volume_flow", "flow")] + [_header(kinds[q], words[q])
+    headers = [header("volume_flow", "flow")] + [header(kinds[q], words[q])
                                                    for q in quantities]
     rows = []
     for i, q in enumerate(curve.flow):
@@ -138,35 +91,9 @@ def _curve_table(curve) -> str:
     return _table(headers, rows) + note
 
 
-def _curve_series(curve, name, kind, quantity="head", color=""):
-    q = np.linspace(curve.flow[0], curve.flow[-1], 80)
-    values = curve.value(quantity, q)
-    return Series(name, _convert("volume_flow", q), _convert(kind, values), color=color)
-
-
-def _pump_sections(result: CurvesCaseResult) -> list[str]:
-    out = []
-    curve, system, point, acc = result.curve, result.system, result.operating_point, \
-        result.acceptance
-    head_kind = _HEAD_KIND[curve.machine]
-    y_label = _header(head_kind, HEAD_WORDS[curve.machine])
-    series = [_curve_series(curve, "datasheet curve", head_kind),
-              Series("datasheet points", _convert("volume_flow", curve.flow),
-                     _convert(head_kind, curve.points("head")), style="markers")]
-    if system is not None:
-        q = np.linspace(0.0, curve.flow[-1], 60)
-        h = system.head(q) if curve.machine == "pump" else system.pressure(q)
-        series.append(Series("system curve", _convert("volume_flow", q),
-                             _convert(head_kind, h), style="dashed"))
-    if point is not None:
-        y = point.total_head if curve.machine == "pump" else point.pressure_rise
-        series.append(Series("operating point", _convert("volume_flow", [point.volume_flow]),
-                             _convert(head_kind, [y]), style="markers", color="#000000"))
-    vlines = [(_convert("volume_flow", [curve.min_flow])[0], "min. flow"),
-              (_convert("volume_flow", [curve.max_flow])[0], "max. flow")]
-    out.append("<h2>Machine and system curves</h2>")
-    out.append(line_chart(series, title="Head against flow", x_label=_header("volume_flow",
-                          "flow"), y_label=y_label, vlines=vlines))
+def _pump_sections(result: CurvesCaseResult, charts: dict) -> list[str]:
+    curve, point, acc = result.curve, result.operating_point, result.acceptance
+    out = ["<h2>Machine and system curves</h2>", render_svg(charts["head"])]
     if point is not None:
         out.append(_fields_table(point.to_dict(), [
             "volume_flow", "total_head", "system_head", "static_head", "efficiency", "power",
@@ -174,35 +101,16 @@ def _pump_sections(result: CurvesCaseResult) -> list[str]:
             labels={"power": "power input", "surge_margin": "margin to the minimum flow"
                     if curve.machine == "pump" else "surge margin"}))
         out.extend(f'<p class="fail">{html.escape(c)}</p>' for c in point.cautions)
-        if point.npsh_available is not None and "npsh_required" in curve.quantities:
-            q = np.linspace(max(curve.flow[0], 1e-9), curve.flow[-1], 40)
-            npsha = [system.npsh_available(x) for x in q]
-            out.append(line_chart([
-                Series("NPSH available", _convert("volume_flow", q), tuple(npsha)),
-                _curve_series(curve, "NPSH required", "length", "npsh_required")],
-                title="Suction head", x_label=_header("volume_flow", "flow"),
-                y_label="NPSH [m]"))
+    if "npsh" in charts:
+        out.append(render_svg(charts["npsh"]))
     if acc is not None:
-        out.extend(_acceptance_section(acc))
+        out.extend(_acceptance_section(acc, charts["acceptance"]))
     return out
 
 
-def _acceptance_section(acc) -> list[str]:
+def _acceptance_section(acc, chart) -> list[str]:
     g = acc.grade
-    ql, qh, hl, hh = acc.cross
-    fq = _unit("volume_flow")[1]
-    series = [_curve_series(acc.curve, "fitted test curve", "length"),
-              Series("test points at rated speed", _convert("volume_flow", acc.flow),
-                     tuple(acc.head), style="markers"),
-              Series("line through origin and guarantee",
-                     (0.0, fq(acc.check_flow)), (0.0, acc.check_head), style="dashed",
-                     color="#7f7f7f")]
-    cross = Cross(f"tolerance cross, grade {g.name}", fq(acc.guarantee_flow),
-                  acc.guarantee_head, fq(ql), fq(qh), hl, hh)
-    out = ["<h2>Acceptance test after ISO 9906:2012</h2>",
-           line_chart(series, title=f"Test against guarantee, grade {g.name}",
-                      x_label=_header("volume_flow", "flow"), y_label="pump total head [m]",
-                      crosses=[cross])]
+    out = ["<h2>Acceptance test after ISO 9906:2012</h2>", render_svg(chart)]
     rows = [["grade", html.escape(g.name), ""],
             ["flow tolerance", f"{g.flow[0]:+.0%} / {g.flow[1]:+.0%}", ""],
             ["head tolerance", f"{g.head[0]:+.0%} / {g.head[1]:+.0%}", ""],
@@ -224,43 +132,17 @@ def _acceptance_section(acc) -> list[str]:
     return out
 
 
-def _compressor_sections(result: CurvesCaseResult) -> list[str]:
-    curve, sim = result.curve, result.similarity
-    out = []
-    fq, fh = _unit("volume_flow")[1], _unit("specific_energy")[1]
-    series = [_curve_series(curve, "datasheet curve", "specific_energy"),
-              Series("datasheet points", _convert("volume_flow", curve.flow),
-                     _convert("specific_energy", curve.points("head")), style="markers")]
-    if sim is not None:
-        u = sim.uncertainty.expanded if sim.uncertainty is not None else {}
-        c, s = sim.converted, sim.specified
-        series += [Series("specified point", (fq(s.volume_flow),), (fh(s.polytropic_head),),
-                          style="markers", color="#000000"),
-                   Series("test converted (U95)", (fq(c.volume_flow),),
-                          (fh(c.polytropic_head),), style="markers", color="#c00000",
-                          y_error=(fh(u.get("polytropic_head", 0.0)),))]
-    vlines = [(fq(curve.min_flow), "surge"), (fq(curve.max_flow), "max. flow")]
-    out += ["<h2>Compressor curve</h2>", line_chart(
-        series, title="Polytropic head against inlet flow", x_label=_header("volume_flow",
-        "inlet flow"), y_label=_header("specific_energy", "polytropic head"),
-        vlines=vlines, zero=False)]
+def _compressor_sections(result: CurvesCaseResult, charts: dict) -> list[str]:
+    sim = result.similarity
+    out = ["<h2>Compressor curve</h2>", render_svg(charts["compressor_head"])]
+    if "compressor_efficiency" in charts:
+        out.append(render_svg(charts["compressor_efficiency"]))
     if sim is None:
         return out
-    if "efficiency" in curve.quantities:
-        u = sim.uncertainty.expanded if sim.uncertainty is not None else {}
-        eff = [_curve_series(curve, "datasheet curve", "dimensionless", "efficiency"),
-               Series("specified point", (fq(s.volume_flow),), (s.polytropic_efficiency,),
-                      style="markers", color="#000000"),
-               Series("test converted (U95)", (fq(c.volume_flow),),
-                      (c.polytropic_efficiency,), style="markers", color="#c00000",
-                      y_error=(u.get("polytropic_efficiency", 0.0),))]
-        out.append(line_chart(eff, title="Polytropic efficiency against inlet flow",
-                              x_label=_header("volume_flow", "inlet flow"),
-                              y_label="polytropic efficiency [-]", vlines=vlines, zero=False))
     names = sim.test.FIELDS
     rows = [[html.escape(FIELDS[n].label)] + [show(getattr(g, n), FIELDS[n].kind, ".5g")
                                               for g in (sim.test, sim.specified, sim.converted)]
-            + [html.escape(_unit(FIELDS[n].kind)[0])] for n in names]
+            + [html.escape(unit(FIELDS[n].kind))] for n in names]
     out += [f"<h2>Similarity after ASME PTC 10-1997 (Type {sim.test_type} test)</h2>",
             _table(["quantity", "test", "specified", "test converted", "unit"], rows)]
     check_rows = [[html.escape(c.parameter.replace("_", " ")), html.escape(c.measure),
@@ -273,7 +155,7 @@ def _compressor_sections(result: CurvesCaseResult) -> list[str]:
         u = sim.uncertainty
         rows = [[html.escape(FIELDS[k].label), show(u.value[k], FIELDS[k].kind, ".5g"),
                  show(u.expanded[k], FIELDS[k].kind, ".3g"),
-                 html.escape(_unit(FIELDS[k].kind)[0]),
+                 html.escape(unit(FIELDS[k].kind)),
                  html.escape(str(u.dominant[k] or "\u2013").replace("_", " "))]
                 for k in u.value]
         out += ["<h3>Uncertainty of the converted figures (ASME PTC 19.1)</h3>",
@@ -331,7 +213,7 @@ def _inputs(result: CurvesCaseResult) -> list[str]:
                                    else [None] * len(acc.flow))]
         out += ["<h3>Test points, translated to the rated speed "
                 f"{show(acc.rated_speed, 'rotational_speed')} rpm</h3>",
-                _table([_header("volume_flow", "flow"), "pump total head [m]",
+                _table([header("volume_flow", "flow"), "pump total head [m]",
                         "efficiency [-]"], rows),
                 f"<p>Guarantee: {show(acc.guarantee_flow, 'volume_flow')} m³/h, "
                 f"{show(acc.guarantee_head, 'length')} m, efficiency "
@@ -373,8 +255,9 @@ def curves_report(result: CurvesCaseResult, *, caution: str | None = None) -> st
             f"<p>{html.escape(result.description)}</p>",
             f'<p class="note">Report made {stamp} by turbo-workbench.</p>']
     body += _inputs(result)
-    body += _compressor_sections(result) if result.kind == "compressor" else \
-        _pump_sections(result)
+    charts = {chart.key: chart for chart in case_charts(result)}
+    body += _compressor_sections(result, charts) if result.kind == "compressor" else \
+        _pump_sections(result, charts)
     body.append(_method())
     return ("<!DOCTYPE html>\n<html lang=\"en\"><head><meta charset=\"utf-8\">"
             f"<title>{title}</title><style>{CSS}</style></head><body>\n"
@@ -394,4 +277,4 @@ def write_curves_report(result: CurvesCaseResult, path) -> Path:
     return target
 
 
-__all__ = ["DISPLAY", "REFERENCES", "curves_report", "show", "write_curves_report"]
+__all__ = ["REFERENCES", "curves_report", "write_curves_report"]
