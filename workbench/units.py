@@ -26,7 +26,7 @@ finally:
     if _HIDE_DASK:
         del sys.modules["dask"]
 
-from .errors import InputError
+from .errors import InputError  # noqa: E402  (after pint, see above)
 
 ureg = pint.UnitRegistry()
 ureg.define("percent_ = 0.01 = pct")
