@@ -86,3 +86,48 @@ def test_pump_readings_to_rated_speed_end_to_end():
     np.testing.assert_allclose(dev["corrected_power"], out["power"] * r ** 3, rtol=1e-12)
     np.testing.assert_allclose(dev["head_deviation_percent"],
                                100 * (out["pump_head"] * r ** 2 / 85.0 - 1), rtol=1e-12)
+
+
+def test_design_point_takes_quantities_and_refuses_bad_values_by_name():
+    # Quantities are converted at the input boundary (NIST SP 811: 1 MW = 1e6 W,
+    # 1 m^3/h = 1/3600 m^3/s; 1 revolution/second = 60 rev/min by definition).
+    from decimal import Decimal
+
+    from workbench.units import Q_
+
+    design = DesignPoint(power=Q_(1.1, "MW"), volume_flow=Q_(360.0, "m**3/h"),
+                         head=Q_(85.0, "m"), speed=Q_(50.0, "revolution/second"),
+                         isentropic_efficiency=Decimal("0.8"))
+    assert design.power == pytest.approx(1.1e6, rel=1e-12)
+    assert design.volume_flow == pytest.approx(0.1, rel=1e-12)
+    assert design.head == 85.0 and design.speed == pytest.approx(3000.0, rel=1e-12)
+    assert design.isentropic_efficiency == 0.8
+    assert DesignPoint(head=Q_(50.0, "kJ/kg")).head == pytest.approx(5e4, rel=1e-12)
+    for kwargs, message in [
+        (dict(power=Q_(1.1, "bar")), "design power was given in bar"),
+        (dict(power=0.0), "design power 0 W is outside the allowed range above 0"),
+        (dict(power=float("nan")), "design power must be a finite number"),
+        (dict(isentropic_efficiency=1.2), "design isentropic efficiency 1.2"),
+        (dict(speed=Q_(50.0, "Hz")), "design speed was given in Hz"),
+        (dict(volume_flow="2"), "design volume flow must be a number"),
+        (dict(head=True), "design head must be a number"),
+    ]:
+        with pytest.raises(InputError, match=message):
+            DesignPoint(**kwargs)
+
+
+def test_affinity_correction_takes_quantities_and_checks_lengths():
+    # Affinity laws (common practice, ISO 9906) with the readings given as Quantities.
+    from workbench.units import Q_
+
+    corr = affinity_correction(Q_([2900.0], "rpm"), Q_(2950.0, "rpm"),
+                               power=Q_([60.0], "kW"), head=Q_([80.0], "m"))
+    r = 2950.0 / 2900.0
+    assert corr.power[0] == pytest.approx(60e3 * r ** 3, rel=1e-12)
+    assert corr.head[0] == pytest.approx(80.0 * r ** 2, rel=1e-12)
+    with pytest.raises(InputError, match="power has 2 values but speed has 1"):
+        affinity_correction([2900.0], 2950.0, power=[1.0, 2.0])
+    with pytest.raises(InputError, match="rated speed must be a number"):
+        affinity_correction([2900.0], "fast")
+    with pytest.raises(InputError, match="results must be a pandas DataFrame"):
+        compare_with_design([1.0], DesignPoint(power=1.0))

@@ -31,3 +31,30 @@ def test_relative_tolerance_and_missing_reading():
         steady_state_flags(frame, ["q"], window=1, tolerance=0.01)
     with pytest.raises(InputError, match="not in the readings"):
         steady_state_flags(frame, ["x"], window=3, tolerance=0.01)
+
+
+def test_bad_arguments_are_refused_by_name():
+    # Every argument goes through the input boundary: whole numbers, True/False, tolerances
+    # not below zero, columns that exist.
+    from workbench.units import Q_
+
+    frame = pd.DataFrame({"p": [1.0, 1.0, 1.0], "t": [300.0, 300.2, 300.1]})
+    for kwargs, message in [
+        (dict(window=True), "window must be a whole number"),
+        (dict(window=1), "window 1 is outside the allowed range"),
+        (dict(window=2.5), "window must be a whole number"),
+        (dict(tolerance=-1.0), "tolerance for column 'p' .* outside the allowed range"),
+        (dict(tolerance=float("nan")), "tolerance for column 'p' must be a finite number"),
+        (dict(tolerance={"p": 1.0}), "no tolerance given for column 't'"),
+        (dict(relative="yes"), "relative must be True or False"),
+        (dict(columns="p"), "columns must be a list"),
+        (dict(columns=["x"]), "'x' are not in the readings"),
+        (dict(tolerance=Q_(0.5, "degC")), "unit with an offset"),
+    ]:
+        args = dict(columns=["p", "t"], window=2, tolerance=0.5)
+        args.update(kwargs)
+        with pytest.raises(InputError, match=message):
+            steady_state_flags(frame, **args)
+    # A temperature tolerance as a Quantity difference: 0.5 delta_degC = 0.5 K (SI).
+    out = steady_state_flags(frame, ["t"], 2, Q_(0.5, "delta_degC"))
+    assert out["steady"].tolist() == [False, True, True]

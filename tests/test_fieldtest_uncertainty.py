@@ -143,7 +143,8 @@ def test_monte_carlo_agrees_with_propagation_machine_path():
 
 
 def test_bad_inputs_are_refused_with_a_message():
-    with pytest.raises(InputError, match="negative"):
+    with pytest.raises(InputError, match="systematic uncertainty of inlet_pressure -1 Pa is "
+                                         "outside the allowed range at least 0"):
         propagate_uncertainty(READINGS, dict(inlet_pressure=(-1.0, 0.0)),
                               model=closed_form_model, results=("isentropic_efficiency",))
     with pytest.raises(InputError, match="not readings"):
@@ -153,6 +154,46 @@ def test_bad_inputs_are_refused_with_a_message():
     with pytest.raises(InputError, match="nominal readings did not evaluate"):
         propagate_uncertainty(reversed_readings, UNCERTAINTIES, machine="compressor",
                               fluid=wb.Fluid("Air"))
-    with pytest.raises(InputError, match="at least 10"):
+    with pytest.raises(InputError,
+                       match=r"samples 3 is outside the allowed range \[10, 1e\+06\]"):
         monte_carlo_uncertainty(READINGS, UNCERTAINTIES, samples=3, model=closed_form_model,
                                 results=("isentropic_efficiency",))
+
+
+def test_quantities_are_accepted_and_bad_values_refused_by_name():
+    # Readings and uncertainties as Quantities give the same report as SI numbers (NIST
+    # SP 811: 1 bar = 1e5 Pa; a temperature uncertainty is a difference, 1 delta_degC = 1 K).
+    from workbench.units import Q_
+
+    si = propagate_uncertainty(READINGS, UNCERTAINTIES, model=closed_form_model,
+                               results=("isentropic_efficiency",))
+    readings = {k: (Q_(v / 1e5, "bar") if k.endswith("pressure") else v)
+                for k, v in READINGS.items()}
+    uncertainties = {k: ((Q_(b / 1e5, "bar"), Q_(s / 1e5, "bar")) if k.endswith("pressure")
+                         else (Q_(b, "delta_degC"), s) if k.endswith("temperature") else (b, s))
+                     for k, (b, s) in UNCERTAINTIES.items()}
+    q = propagate_uncertainty(readings, uncertainties, model=closed_form_model,
+                              results="isentropic_efficiency")
+    assert q.combined["isentropic_efficiency"] == pytest.approx(
+        si.combined["isentropic_efficiency"], rel=1e-9)
+    for readings_, uncertainties_, message in [
+        (dict(READINGS, inlet_pressure=Q_(1.0, "m")), UNCERTAINTIES,
+         "reading inlet_pressure was given in m"),
+        (dict(READINGS, inlet_pressure="1 bar"), UNCERTAINTIES,
+         "reading inlet_pressure must be a number"),
+        (dict(READINGS, inlet_pressure=float("nan")), UNCERTAINTIES,
+         "reading inlet_pressure must be a finite number"),
+        (READINGS, dict(UNCERTAINTIES, inlet_temperature=(Q_(0.5, "degC"), 0.0)),
+         "unit with an offset"),
+        (READINGS, dict(UNCERTAINTIES, inlet_pressure=5.0),
+         "uncertainty of inlet_pressure must be"),
+        ([1.0], UNCERTAINTIES, "readings must be a dict"),
+    ]:
+        with pytest.raises(InputError, match=message):
+            propagate_uncertainty(readings_, uncertainties_, model=closed_form_model,
+                                  results=("isentropic_efficiency",))
+    with pytest.raises(InputError, match="step_fraction"):
+        propagate_uncertainty(READINGS, UNCERTAINTIES, model=closed_form_model,
+                              step_fraction=0.0)
+    with pytest.raises(InputError, match="seed must be a whole number"):
+        monte_carlo_uncertainty(READINGS, UNCERTAINTIES, model=closed_form_model, seed="x")

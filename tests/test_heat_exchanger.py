@@ -6,8 +6,8 @@ import pytest
 from iapws import IAPWS97
 
 from workbench.errors import InputError, SpecificationError
-from workbench.fluids import Fluid
 from workbench.machines.heat_exchanger import cooler, heat_exchanger
+from workbench.properties import Fluid
 from workbench.units import Q_
 
 WATER = Fluid("Water")
@@ -103,5 +103,108 @@ def test_balanced_counterflow_perfect_gas():
 
 def test_negative_heat_loss_is_refused():
     hot, cold = WATER.state_PT(5e5, 363.15), WATER.state_PT(4e5, 293.15)
-    with pytest.raises(InputError, match="heat exchanger heat loss -5 W must not be negative"):
+    with pytest.raises(InputError, match="heat exchanger heat loss -5 W is outside the allowed range at least 0"):
         heat_exchanger(hot, 5.0, cold, 8.0, duty=1e5, heat_loss=-5.0)
+
+
+def test_zero_terminal_difference_is_refused_by_name():
+    # A zero terminal temperature difference needs an infinite area: LMTD -> 0 and
+    # UA -> infinity (limit of the LMTD closed form, TEMA); the workbench refuses it with a
+    # message naming the difference instead of returning NaN or infinity.
+    from workbench.machines.heat_exchanger import _terminal_differences
+
+    hot_in, cold_in = WATER.state_PT(5e5, 363.15), WATER.state_PT(4e5, 293.15)
+    hot_out, cold_out = WATER.state_PT(5e5, 293.15), WATER.state_PT(4e5, 333.15)
+    with pytest.raises(SpecificationError, match="cold end temperature difference is 0 K"):
+        _terminal_differences(hot_in, hot_out, cold_in, cold_out)
+    # Through the public API the outlet temperature at the other stream's inlet temperature
+    # is refused with the allowed (open) range.
+    with pytest.raises(InputError, match=r"hot outlet temperature 293.15 K must lie in \(293.15"):
+        heat_exchanger(hot_in, 5.0, cold_in, 8.0, hot_outlet_temperature=293.15)
+    with pytest.raises(InputError, match=r"cold outlet temperature 363.15 K must lie in"):
+        heat_exchanger(hot_in, 5.0, cold_in, 8.0, cold_outlet_temperature=363.15)
+    gas = AIR.state_PT(3e5, 420.0)
+    with pytest.raises(InputError, match="cooling water inlet temperature 308.15 K must be "
+                                         "below the cooler outlet temperature 308.15 K"):
+        cooler(gas, 2.0, 308.15, cooling_water_inlet_temperature=308.15,
+               cooling_water_outlet_temperature=318.15)
+    with pytest.raises(InputError, match="cooling water outlet temperature 420 K must be "
+                                         "below the cooler inlet temperature 420 K"):
+        cooler(gas, 2.0, 308.15, cooling_water_inlet_temperature=298.15,
+               cooling_water_outlet_temperature=420.0)
+
+
+def test_lmtd_near_equal_differences_is_the_closed_form_limit():
+    # LMTD = (dt1 - dt2) / ln(dt1/dt2), written with log1p to stay accurate when the two
+    # differences are nearly equal (closed form); its limit for equal differences is dT.
+    from workbench.machines.heat_exchanger import _lmtd
+
+    for e in (1e-12, 1e-9, 1e-7, 2e-6, 1e-3):
+        dt2 = 10.0
+        dt1 = dt2 * (1 + e)
+        exact = (dt1 - dt2) / dt2  # dt1 - dt2 is exact in floating point (Sterbenz)
+        assert _lmtd(dt1, dt2) == pytest.approx((dt1 - dt2) / math.log1p(exact), rel=1e-12)
+        assert _lmtd(dt2, dt1) == pytest.approx(_lmtd(dt1, dt2), rel=1e-12)
+    assert _lmtd(10.0, 10.0) == 10.0
+
+
+def test_condensing_stream_carries_a_caution_and_finite_numbers():
+    # Steam condensing on the hot side changes phase inside the exchanger: the terminal
+    # LMTD does not describe the heat transfer (common practice: zone the exchanger), so the
+    # result says so; every number is finite.
+    steam = WATER.state(P=1e5, x=1.0)
+    cold = WATER.state_PT(3e5, 293.15)
+    result = heat_exchanger(steam, 0.5, cold, 20.0, hot_outlet_temperature=360.0)
+    assert any("hot stream changes phase" in c for c in result.cautions)
+    # Duty = m (h_g(1 bar) - h(1 bar, 360 K)), IAPWS-IF97 via iapws; IAPWS-95 agrees to
+    # well under 0.1 % (from memory).
+    duty = 0.5 * (IAPWS97(P=0.1, x=1).h - IAPWS97(P=0.1, T=360.0).h) * 1e3
+    assert result.duty == pytest.approx(duty, rel=1e-3)
+    values = result.to_dict()
+    assert math.isfinite(values["conductance"]) and values["conductance"] > 0
+    sensible = heat_exchanger(WATER.state_PT(5e5, 363.15), 5.0, cold, 8.0, duty=1e5)
+    assert sensible.cautions == ()
+
+
+def test_result_keys_are_fields():
+    # Result keys come from the one table of result fields (workbench.fields.FIELDS), with a
+    # hot_/cold_/cooling_water_ stream prefix where a device has several streams.
+    from workbench.fields import FIELDS
+    from workbench.machines.checks import TEXT_KEYS, field_key
+
+    hot, cold = WATER.state_PT(5e5, 363.15), WATER.state_PT(4e5, 293.15)
+    hx = heat_exchanger(hot, 5.0, cold, 8.0, duty=1e5).to_dict()
+    cool = cooler(AIR.state_PT(3e5, 420.0), 2.0, 308.15,
+                  cooling_water_inlet_temperature=298.15,
+                  cooling_water_outlet_temperature=308.15).to_dict()
+    for d in (hx, cool):
+        for key in d:
+            assert key in TEXT_KEYS or field_key(key) in FIELDS
+    assert hx["hot_inlet_temperature"] == 363.15
+    assert cool["cooling_water_outlet_temperature"] == pytest.approx(308.15)
+    assert math.isnan(cool["outlet_quality"])  # single-phase: quality not defined
+
+
+@pytest.mark.parametrize("value, message", [
+    (Q_(5.0, "bar"), "hot mass flow was given in bar"),
+    (True, "hot mass flow must be a number"),
+    (10 ** 400, "hot mass flow .* is too large"),
+    (1e-300, "hot mass flow .* is too small"),
+    ([5.0], "hot mass flow must be a single number"),
+])
+def test_bad_flows_are_refused_by_name(value, message):
+    hot, cold = WATER.state_PT(5e5, 363.15), WATER.state_PT(4e5, 293.15)
+    with pytest.raises(InputError, match=message):
+        heat_exchanger(hot, value, cold, 8.0, duty=1e5)
+
+
+def test_decimal_and_numpy_inputs_are_accepted():
+    # Decimal and numpy scalars are numbers (project input boundary): same result as floats.
+    from decimal import Decimal
+
+    import numpy as np
+
+    hot, cold = WATER.state_PT(5e5, 363.15), WATER.state_PT(4e5, 293.15)
+    a = heat_exchanger(hot, 5.0, cold, 8.0, duty=1e5)
+    b = heat_exchanger(hot, Decimal("5.0"), cold, np.float32(8.0), duty=np.int64(100000))
+    assert b.cold_outlet.T == pytest.approx(a.cold_outlet.T, rel=1e-12)

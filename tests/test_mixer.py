@@ -6,8 +6,8 @@ import pytest
 from iapws import IAPWS97
 
 from workbench.errors import InputError, SpecificationError, WorkbenchError
-from workbench.fluids import Fluid
 from workbench.machines.mixer import mixer, splitter
+from workbench.properties import Fluid
 from workbench.units import Q_
 
 WATER = Fluid("Water")
@@ -114,3 +114,48 @@ def test_perfect_gas_mixing_temperature_and_entropy(heat_loss):
     s_gen = CP_ARGON * (math.log(t_out / 300.0) + math.log(t_out / 500.0)) + heat_loss / t_out
     assert result.outlet.T == pytest.approx(t_out, rel=2e-4)
     assert result.entropy_generation == pytest.approx(s_gen, rel=5e-3)
+
+
+def test_two_phase_splitter_and_mixer_carry_cautions():
+    # A tee does not split a two-phase flow evenly (phase maldistribution, common practice);
+    # a mixer whose outlet is wet says so.
+    wet = STEAM.state(P=10e5, x=0.5)
+    split = splitter(wet, 4.0, fractions=[0.25, None])
+    assert "two-phase" in split.cautions[0]
+    assert splitter(STEAM.state_PT(20e5, 573.15), 4.0, fractions=[0.5, 0.5]).cautions == ()
+    liquid, vapour = STEAM.state(P=10e5, x=0.0), STEAM.state(P=10e5, x=1.0)
+    mixed = mixer([(liquid, 1.0), (vapour, 1.0)])
+    assert "two-phase" in mixed.cautions[0]
+    assert mixed.outlet_quality == pytest.approx(0.5, abs=1e-9)
+
+
+def test_result_keys_are_fields_with_stream_prefixes():
+    # Keys come from workbench.fields.FIELDS; streams and branches carry a stream_<i>_ or
+    # branch_<i>_ prefix.
+    from workbench.fields import FIELDS
+    from workbench.machines.checks import TEXT_KEYS, field_key
+
+    streams = [(WATER.state_PT(5e5, 293.15), 2.0), (WATER.state_PT(4e5, 353.15), 1.0)]
+    m = mixer(streams).to_dict()
+    s = splitter(STEAM.state_PT(20e5, 573.15), 10.0, branch_mass_flows=[2.5, None]).to_dict()
+    for d in (m, s):
+        assert all(key in TEXT_KEYS or field_key(key) in FIELDS for key in d)
+    assert m["stream_2_mass_flow"] == 1.0 and m["stream_1_temperature"] == 293.15
+    assert s["branch_2_mass_flow"] == 7.5 and s["branch_1_split_fraction"] == 0.25
+    assert math.isnan(s["quality"])
+
+
+def test_bad_stream_values_are_refused_by_name():
+    from decimal import Decimal
+
+    water = WATER.state_PT(5e5, 300.0)
+    with pytest.raises(InputError, match="mixer stream 2 mass flow was given in bar"):
+        mixer([(water, 1.0), (water, Q_(1.0, "bar"))])
+    with pytest.raises(InputError, match="mixer stream 1 state must be a State"):
+        mixer([("water", 1.0), (water, 1.0)])
+    with pytest.raises(InputError, match="mixer streams must be a list"):
+        mixer("water")
+    with pytest.raises(InputError, match="split fraction of branch 1 must be a number"):
+        splitter(water, 1.0, fractions=[True, None])
+    # Decimal split fractions are numbers
+    assert splitter(water, 1.0, fractions=[Decimal("0.5"), None]).branch_mass_flows[1] == 0.5

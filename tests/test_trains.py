@@ -6,7 +6,7 @@ import pytest
 from iapws import IAPWS97
 
 from workbench.errors import InputError, SpecificationError, WorkbenchError
-from workbench.fluids import Fluid
+from workbench.properties import Fluid
 from workbench.trains import (
     Admission,
     CompressorStage,
@@ -185,14 +185,21 @@ def test_turbine_ratio_is_inlet_over_outlet_and_named_so():
     air = AIR.state_PT(1e5, 300.0)
     stage = Train([CompressorStage("c", pressure_ratio=3.0, isentropic_efficiency=0.8)])
     assert stage.run(air, 1.0).outlet.P == pytest.approx(3e5, rel=1e-12)
-    # The message for a bad turbine ratio must state the turbine's convention.
-    bad = Train([TurbineSection("t", pressure_ratio=-2.0, isentropic_efficiency=0.8)])
-    with pytest.raises(InputError, match="pressure ratio of 't'") as info:
-        bad.run(steam, 1.0)
-    assert "inlet over outlet" in str(info.value)
-    bad = Train([CompressorStage("c", pressure_ratio=0.0, isentropic_efficiency=0.8)])
+    # The message for a bad turbine ratio must state the turbine's convention; a ratio is
+    # refused when the step is made (the input boundary), before any run.
+    for ratio in (-2.0, 0.0, 0.5, 1.0):
+        with pytest.raises(InputError, match="pressure ratio of 't'") as info:
+            TurbineSection("t", pressure_ratio=ratio, isentropic_efficiency=0.8)
+        assert "inlet over outlet" in str(info.value) and "above 1" in str(info.value)
     with pytest.raises(InputError, match="outlet over inlet"):
-        bad.run(air, 1.0)
+        CompressorStage("c", pressure_ratio=0.0, isentropic_efficiency=0.8)
+    # the machine table quotes every ratio higher over lower, as the field says
+    # (workbench.fields.FIELDS["pressure_ratio"])
+    mixed = Train([CompressorStage("c", pressure_ratio=2.0, isentropic_efficiency=0.8),
+                   TurbineSection("t", pressure_ratio=4.0, isentropic_efficiency=0.8)])
+    frame = mixed.run(air, 1.0).machines_frame()
+    assert frame.loc["c", "pressure_ratio"] == pytest.approx(2.0, rel=1e-12)
+    assert frame.loc["t", "pressure_ratio"] == pytest.approx(4.0, rel=1e-12)
 
 
 def test_valve_by_pressure_drop_is_isenthalpic():
@@ -212,7 +219,8 @@ def test_extraction_by_fraction_keeps_the_mass_balance():
     # both in the state arriving.
     steam = STEAM.state_PT(15e5, 573.15)
     result = Train([Extraction("bleed", fraction=0.25)]).run(steam, 8.0)
-    branch = next(s for s in result.stations if s.role == "extraction")
+    branch = result.step("bleed").branch
+    assert branch is result.branches[0] and branch.role == "extraction"
     assert branch.mass_flow == pytest.approx(2.0, rel=1e-12)
     assert result.outlet_mass_flow == pytest.approx(6.0, rel=1e-12)
     assert branch.state is steam and result.outlet is steam
@@ -226,3 +234,135 @@ def test_pipe_run_rise_follows_bernoulli():
     rho = IAPWS97(P=0.3, T=293.15).rho
     result = Train([PipeRun("riser", 0.1, options={"elevation_change": 10.0})]).run(water, 5.0)
     assert result.outlet.P == pytest.approx(3e5 - rho * 9.80665 * 10.0, rel=1e-6)
+
+
+# ---------------------------------------------------------------------- names and the boundary
+def test_extraction_is_a_named_attribute_and_powers_are_named_for_the_shaft():
+    # Extraction state: the HP section's outlet, h2 = h1 - eta (h1 - h2s) from IAPWS-IF97 via
+    # iapws (no valve here); mechanical efficiency: shaft = eta_m x fluid power for a turbine
+    # (definition, workbench.fields "mechanical_efficiency").
+    inlet = STEAM.state_PT(60e5, 753.15)
+    result = extraction_turbine(inlet, 20.0, 0.1e5, extraction_pressure=5e5,
+                                extraction_mass_flow=3.0, hp_isentropic_efficiency=0.85,
+                                lp_isentropic_efficiency=0.80, mechanical_efficiency=0.98)
+    h1, s1 = IAPWS97(P=6.0, T=753.15).h, IAPWS97(P=6.0, T=753.15).s
+    h2 = h1 - 0.85 * (h1 - IAPWS97(P=0.5, s=s1).h)
+    bleed = result.extraction
+    assert bleed.mass_flow == pytest.approx(3.0, rel=1e-12)
+    assert bleed.state.P == pytest.approx(5e5, rel=1e-12)
+    assert bleed.state.h == pytest.approx(h2 * 1e3, rel=1e-6)
+    hp, lp = result.high_pressure_section, result.low_pressure_section
+    fluid_power = hp.power + lp.power
+    assert result.total_shaft_power == pytest.approx(0.98 * fluid_power, rel=1e-12)
+    assert result.total_power == result.total_shaft_power
+    assert result.train.delivered_shaft_power == result.total_shaft_power
+    assert result.to_dict()["totals"]["delivered_shaft_power_W"] == result.total_shaft_power
+    # the machine table keeps both, named: power_W (fluid) and shaft_power_W
+    frame = result.machines_frame()
+    assert frame.loc["HP section", "power_W"] == pytest.approx(hp.power)
+    assert frame.loc["HP section", "shaft_power_W"] == pytest.approx(0.98 * hp.power)
+
+
+def test_intercooled_total_is_shaft_power():
+    # a driven machine: shaft = fluid power / eta_m (definition of mechanical efficiency)
+    suction = AIR.state_PT(1e5, 300.0)
+    r = intercooled_compressor(suction, 1.0, P_out=9e5, isentropic_efficiency=0.8,
+                               cooler_outlet_temperature=300.0, mechanical_efficiency=0.97)
+    fluid = sum(m.power for m in r.train.machines.values())
+    assert r.total_shaft_power == pytest.approx(fluid / 0.97, rel=1e-12)
+    assert r.total_power == r.total_shaft_power == pytest.approx(sum(r.stage_powers))
+    assert r.to_dict()["totals"]["total_shaft_power_W"] == r.total_shaft_power
+
+
+def test_an_extraction_must_leave_flow_for_the_next_step():
+    # Splitter mass balance: a fraction 1 sends the whole flow into the branch and nothing
+    # down the train (common practice) - refused when the step is made.
+    with pytest.raises(InputError, match="split fraction of 'bleed' is 1.*leaving none"):
+        Extraction("bleed", fraction=1.0)
+    with pytest.raises(InputError, match="split fraction of 'bleed'"):
+        Extraction("bleed", fraction=-0.1)
+    with pytest.raises(SpecificationError, match="exactly one"):
+        Extraction("bleed", fraction=0.2, branch_mass_flow=1.0)
+    with pytest.raises(SpecificationError, match="'bleed'"):
+        Train([Extraction("bleed", branch_mass_flow=2.0)]).run(AIR.state_PT(1e5, 300.0), 2.0)
+
+
+def test_tables_take_their_columns_from_the_fields_table():
+    from workbench.fields import FIELDS
+    from workbench.trains import MACHINE_FIELDS, STATION_FIELDS
+    from workbench.trains.core import column
+    suction = AIR.state_PT(1e5, 300.0)
+    r = intercooled_compressor(suction, 1.0, P_out=4e5, isentropic_efficiency=0.8,
+                               cooler_outlet_temperature=300.0)
+    stations = r.stations_frame()
+    assert list(stations.columns) == ["role", *(column(n) for n in STATION_FIELDS), "phase"]
+    assert column("pressure") == "pressure_Pa" and column("entropy") == "entropy_J_per_kgK"
+    labelled = r.machines_frame(headers=True)
+    assert [FIELDS[n].header() for n in MACHINE_FIELDS] == list(labelled.columns[1:])
+    assert "shaft power [W]" in labelled.columns and "fluid power [W]" in labelled.columns
+    # quality is NaN for a single-phase station (State.quality)
+    assert stations["quality"].isna().all()
+
+
+@pytest.mark.parametrize("make, match", [
+    (lambda: CompressorStage("c", pressure_ratio="3", isentropic_efficiency=0.8),
+     "pressure ratio of 'c' must be a number"),
+    (lambda: CompressorStage("c", P_out=True, isentropic_efficiency=0.8),
+     "outlet pressure of 'c' must be a number"),
+    (lambda: CompressorStage("c", P_out=Q_(3, "m"), isentropic_efficiency=0.8),
+     "outlet pressure of 'c' was given in"),
+    (lambda: CompressorStage("c", P_out=3e5), "isentropic or polytropic efficiency"),
+    (lambda: CompressorStage("c", P_out=3e5, isentropic_efficiency=1.2),
+     "isentropic efficiency of 'c' 1.2 is outside"),
+    (lambda: CompressorStage("c", P_out=3e5, isentropic_efficiency=float("nan")),
+     "isentropic efficiency of 'c' must be a finite number"),
+    (lambda: CompressorStage(5, P_out=3e5, isentropic_efficiency=0.8), "train step name"),
+    (lambda: Cooler("ic", outlet_temperature=None), "cooler outlet temperature of 'ic'"),
+    (lambda: Cooler("ic", outlet_temperature=300.0, pressure_drop=-1.0),
+     "pressure drop of 'ic' -1 Pa is outside"),
+    (lambda: ThrottleValve("v", pressure_drop=0.0), "pressure drop of 'v' 0 Pa is outside"),
+    (lambda: PipeRun("p", 1e-300), "diameter of 'p'"),
+    (lambda: PipeRun("p", 0.1, options="length=3"), "options of pipe 'p'"),
+    (lambda: Admission("a", state="steam", branch_mass_flow=1.0), "state of admission 'a'"),
+    (lambda: Admission("a", state=STEAM.state_PT(1e6, 500.0), branch_mass_flow=0),
+     "branch mass flow of 'a'"),
+    (lambda: PressureLoss("d", pressure_drop=1e3, mass_flow=-1.0), "mass flow of step 'd'"),
+    (lambda: Train("stage 1"), "list of steps"),
+])
+def test_steps_take_their_numbers_through_the_input_boundary(make, match):
+    with pytest.raises(WorkbenchError, match=match):
+        make()
+
+
+def test_steps_accept_quantities():
+    # 2 bar = 2e5 Pa; 35 degC = 308.15 K (definitions)
+    assert TurbineSection("t", P_out=Q_(2, "bar"), isentropic_efficiency=0.8).P_out == 2e5
+    assert Cooler("c", Q_(35, "degC")).outlet_temperature == pytest.approx(308.15)
+
+
+@pytest.mark.parametrize("options, match", [
+    ({"stages": "2"}, "number of stages must be a whole number"),
+    ({"stages": 2.5}, "number of stages must be a whole number"),
+    ({"stages": True}, "number of stages must be a whole number"),
+    ({"stages": 9}, "number of stages 9 is outside"),
+    ({"stage_ratios": "geometric"}, "stage ratios must be one of 'equal', 'optimal'"),
+    ({"stage_ratios": [0.5]}, "pressure ratio of stage 1"),
+    ({"stage_ratios": 3.0}, "stage ratios must be 'equal', 'optimal' or a list"),
+    ({"stage_ratios": [2.0, 2.0]}, "stage ratios has 2 values; 1 are needed"),
+    ({"aftercooler": "yes"}, "aftercooler must be True or False"),
+    ({"cooler_pressure_drop": -5.0}, "cooler pressure drop -5 Pa is outside"),
+    ({"cooler_outlet_temperature": [300.0, 300.0]}, "cooler outlet temperature has 2 values"),
+    ({"P_out": None, "pressure_ratio": 0.5}, "overall pressure ratio 0.5 is outside"),
+])
+def test_intercooled_compressor_options_through_the_boundary(options, match):
+    suction = AIR.state_PT(1e5, 300.0)
+    kwargs = dict(P_out=9e5, isentropic_efficiency=0.8, cooler_outlet_temperature=300.0)
+    kwargs.update(options)
+    with pytest.raises(WorkbenchError, match=match):
+        intercooled_compressor(suction, 1.0, **kwargs)
+
+
+def test_unknown_step_name_lists_the_steps():
+    r = Train([PressureLoss("drop", pressure_drop=1e3)]).run(AIR.state_PT(1e5, 300.0), 1.0)
+    with pytest.raises(InputError, match="no step 'valve'.*'drop'"):
+        r.step("valve")

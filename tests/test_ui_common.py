@@ -107,7 +107,9 @@ def test_number_entry_without_significant_keeps_the_old_rounding():
 
 
 def test_sweep_figure_is_changed_in_place():
-    fig = charts.sweep_figure([1.0, 2.0, 3.0], {"a [kW]": [1.0, math.nan, 3.0]}, "x [bar]")
+    fig = charts.make_sweep_figure()
+    charts.update_sweep_figure(fig, [1.0, 2.0, 3.0], {"a [kW]": [1.0, math.nan, 3.0]}, "x [bar]")
+    assert math.isnan(fig.data[0].y[1])  # a failed point is a gap
     charts.update_sweep_figure(fig, [1.0, 2.0], {"a [kW]": [5.0, 6.0], "b [°C]": [7.0, 8.0]},
                                "x [psi]")
     assert len(fig.data) == 2
@@ -174,3 +176,155 @@ def test_first_process_chart_draw_sends_no_parent_and_child_together():
                                    "isentropic", "ends", "iso end")}
     keys = relayout_keys_sent(fig, lambda f: charts.update_process_figure(f, points))
     assert "xaxis2.title.text" in keys and no_parent_with_child(keys), keys
+
+
+# ---------------------------------------------------------------------------- plumbing
+# The plumbing every panel shares (message area, quiet updates, downloads, Panel.guard).
+# Expected behaviour is the project's own rule (DESIGN.md, "Errors"): a UI callback never
+# lets an exception escape into the page, shows the message and keeps the last good result
+# visible, marked stale.
+
+import base64  # noqa: E402
+import doctest  # noqa: E402
+
+import ipywidgets as widgets  # noqa: E402
+
+from workbench.errors import InputError  # noqa: E402
+from workbench.ui import common  # noqa: E402
+from workbench.ui.common import (  # noqa: E402
+    MessageArea,
+    Panel,
+    ResultRows,
+    describe_error,
+    download_link,
+    input_class,
+    quiet_update,
+    result_class,
+)
+
+
+def test_plumbing_docstring_examples_run():
+    failures, tried = doctest.testmod(common)
+    assert tried >= 3 and failures == 0
+
+
+def test_quiet_update_suppresses_a_guarded_observer_and_restores_after_an_error():
+    panel = Panel()
+    calls = []
+    box = widgets.FloatText(value=1.0)
+    box.observe(panel.guard(lambda change: calls.append(change["new"])), names="value")
+    with panel.quiet():
+        box.value = 2.0
+    assert calls == [] and panel._quiet is False
+    box.value = 3.0
+    assert calls == [3.0]
+    with pytest.raises(RuntimeError):
+        with quiet_update(panel):
+            with quiet_update(panel):  # nested: the outer quiet stays on
+                pass
+            assert panel._quiet is True
+            raise RuntimeError("body failed")
+    assert panel._quiet is False
+
+
+def test_number_entry_set_si_does_not_call_its_callback():
+    seen = []
+    entry = NumberEntry("p", "pressure", "pressure", 2e5, on_change=seen.append,
+                        system="bar, degC")
+    entry.set_si(3e5)
+    assert seen == [] and entry.value == pytest.approx(3.0)  # bar, exact (1 bar = 1e5 Pa)
+    entry.field.value = 4.0  # as typed
+    assert seen == [entry] and entry.si == pytest.approx(4e5)
+
+
+def test_download_link_round_trips_the_content_and_escapes_the_name():
+    text = "x [bar],y [kW]\n1,2\n"
+    link = download_link(text, "a'b.csv", "get <it>")
+    encoded = link.split("base64,")[1].split("'")[0]
+    assert base64.b64decode(encoded).decode("utf-8") == text
+    assert "a&#x27;b.csv" in link and "get &lt;it&gt;" in link
+    assert "data:application/json;base64," in download_link(b"{}", "c.json", "c",
+                                                            "application/json")
+
+
+def test_message_area_escapes_text_and_lists_each_caution_once():
+    area = MessageArea()
+    assert area.has_class("wb-message") if hasattr(area, "has_class") else \
+        "wb-message" in area._dom_classes
+    area.show("<b>calculated</b>", cautions=("wet outlet", "wet outlet", "low flow"))
+    assert area.text == "<b>calculated</b>; caution: wet outlet; caution: low flow"
+    assert "<b>" not in area.value and "&lt;b&gt;" in area.value
+    assert area.level == "caution"
+    area.show_error(InputError("inlet pressure -1 bar is below 0 bar"))
+    assert area.level == "error" and area.text == "inlet pressure -1 bar is below 0 bar"
+    area.clear()
+    assert area.text == "" and area.value == "" and area.level == ""
+
+
+def test_describe_error_never_shows_a_raw_message_of_an_unexpected_error():
+    text = describe_error(ZeroDivisionError("float division by zero"))
+    assert "ZeroDivisionError" in text and "float division" not in text
+    assert "Traceback" not in text
+    assert describe_error(InputError("mass flow  0 kg/s\nmust be above 0")) == \
+        "mass flow 0 kg/s must be above 0"
+
+
+def test_panel_guard_shows_errors_and_keeps_the_last_result_marked_stale():
+    panel = Panel()
+    rows = panel.add_result_widget(ResultRows(["shaft_power", "isentropic_efficiency"],
+                                              percent={"isentropic_efficiency"}))
+    panel.show_result("good", "calculated")
+    assert panel.result == "good" and not panel.stale and panel.message.text == "calculated"
+
+    def bad_input():
+        raise InputError("outlet pressure 2 bar is below inlet pressure 5 bar")
+
+    def defect():
+        return 1 / 0
+
+    assert panel.guard(bad_input)() is None  # never raises
+    assert panel.result == "good" and panel.stale
+    assert panel.message.text == "outlet pressure 2 bar is below inlet pressure 5 bar"
+    assert rows.rows["shaft-power"].text.style.text_color == common.STALE_COLOUR
+    assert panel.guard(defect, "sweep not run: ")() is None
+    assert panel.message.text.startswith("sweep not run: unexpected error (ZeroDivisionError)")
+    panel.show_result("better")
+    assert not panel.stale and rows.rows["shaft-power"].text.style.text_color is None
+    assert panel.message.text == ""
+
+
+def test_a_panel_without_a_result_is_not_stale_after_an_error():
+    panel = Panel()
+    panel.fail(InputError("bad"))
+    assert panel.result is None and not panel.stale and panel.message.level == "error"
+
+
+def test_panel_carries_the_safety_caution_once():
+    import workbench as wb
+
+    panel = Panel([widgets.Label("x")])
+    assert wb.SAFETY_CAUTION[:40] in panel.caution.value
+    assert panel.has_class("wb-panel") if hasattr(panel, "has_class") else True
+
+
+def test_result_rows_take_labels_and_kinds_from_the_fields_table():
+    from workbench.fields import FIELDS
+
+    rows = ResultRows(["shaft_power", "isentropic_efficiency", "outlet_temperature"],
+                      percent={"isentropic_efficiency"})
+    assert rows.rows["shaft-power"].label.value == FIELDS["shaft_power"].label
+    assert "wb-result-outlet-temperature" in rows.rows["outlet-temperature"].text._dom_classes
+    # 1 bar = 1e5 Pa; 0 degC = 273.15 K; 1 kW = 1000 W (SI definitions, NIST SP 811)
+    rows.show({"shaft_power": 1234.5, "isentropic_efficiency": 0.8123,
+               "outlet_temperature": 373.15}, "bar, degC")
+    assert rows.shown("shaft_power") == "1.2345 kW"
+    assert rows.shown("isentropic-efficiency") == "81.23 %"
+    assert rows.shown("outlet_temperature") == "100.00 °C"
+    rows.show({"shaft_power": math.nan}, "SI", notes={"outlet_temperature": "– (gas)"})
+    assert rows.shown("shaft_power") == "–" and rows.shown("outlet_temperature") == "– (gas)"
+
+
+def test_hook_classes():
+    w = input_class(widgets.Text(), "fluid")
+    r = result_class(widgets.HTML(), "power")
+    assert "wb-input-fluid" in w._dom_classes and "wb-result-power" in r._dom_classes

@@ -9,6 +9,17 @@ engineer's judgement.
 """
 
 from . import fieldtest  # noqa: E402
+from .curves import (  # noqa: E402
+    CompressorCondition,
+    PerformanceCurve,
+    PipeSection,
+    SystemCurve,
+    compressibility_coefficient,
+    compressor_similarity,
+    fan_test,
+    operating_point,
+    pump_acceptance,
+)
 from .errors import (
     CaseFileError,
     InputError,
@@ -28,7 +39,6 @@ from .fieldtest import (  # noqa: E402
     read_readings,
     steady_state_flags,
 )
-from .fluids import Fluid, State, StateArray, available_fluids, normalise_fractions
 from .machines import (
     MachineResult,
     compressor,
@@ -46,6 +56,7 @@ from .machines import (
     throttle,
     turbine,
 )
+from .properties import Fluid, State, StateArray, available_fluids, normalise_fractions
 from .trains import (  # noqa: E402  (trains build on the machines above)
     Admission,
     CompressorStage,
@@ -84,4 +95,7 @@ __all__ = [
     "fieldtest", "DesignPoint", "InstrumentUncertainty", "affinity_correction",
     "compare_with_design", "evaluate", "monte_carlo_uncertainty", "propagate_uncertainty",
     "read_readings", "steady_state_flags",
+    "PerformanceCurve", "SystemCurve", "operating_point", "pump_acceptance",
+    "compressor_similarity", "CompressorCondition", "PipeSection", "fan_test",
+    "compressibility_coefficient",
 ]

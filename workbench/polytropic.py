@@ -28,7 +28,7 @@ from dataclasses import dataclass
 from scipy.integrate import solve_ivp
 
 from .errors import PropertyError
-from .fluids import State
+from .properties import State
 
 #: Efficiency stability reached by the path integration and the secant iteration [-].
 EFFICIENCY_TOLERANCE = 1e-6

@@ -9,12 +9,24 @@ from __future__ import annotations
 
 import math
 import re
+import sys
 from dataclasses import dataclass
 
 import numpy as np
-import pint
 
-from .errors import InputError
+# pint imports dask.base at import time when dask is installed (for pint Quantities wrapping
+# dask arrays, which the workbench does not use); that costs the dashboards about half a
+# second per kernel.  Hide dask from pint while pint loads, unless dask is already imported.
+_HIDE_DASK = "dask" not in sys.modules
+if _HIDE_DASK:
+    sys.modules["dask"] = None  # type: ignore[assignment]  # makes "import dask" fail
+try:
+    import pint
+finally:
+    if _HIDE_DASK:
+        del sys.modules["dask"]
+
+from .errors import InputError  # noqa: E402  (after pint, see above)
 
 ureg = pint.UnitRegistry()
 ureg.define("percent_ = 0.01 = pct")
@@ -42,6 +54,9 @@ SI_UNITS = {
     "dynamic_viscosity": "Pa*s",
     "time": "s",
     "mass": "kg",
+    "thermal_conductance": "W/K",
+    "entropy_flow": "W/K",
+    "joule_thomson_coefficient": "K/Pa",
 }
 
 

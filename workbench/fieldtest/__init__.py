@@ -5,8 +5,14 @@ model; they do not replace the equipment supplier's data, the applicable test co
 licensed engineer's judgement.
 """
 
-from .batch import DEFAULT_RESULTS, RESULTS, STANDARD_CONDITIONS, evaluate
-from .dask_batch import evaluate_dask
+from .batch import (
+    DEFAULT_RESULTS,
+    RESULTS,
+    STANDARD_CONDITIONS,
+    evaluate,
+    evaluate_dask,
+    with_unit_headers,
+)
 from .design import AffinityCorrection, DesignPoint, affinity_correction, compare_with_design
 from .readers import PROBLEM_COLUMN, READING_KINDS, read_readings, readings_from_frame
 from .steady import steady_state_flags
@@ -23,5 +29,5 @@ __all__ = [
     "MonteCarloReport", "PROBLEM_COLUMN", "READING_KINDS", "RESULTS", "STANDARD_CONDITIONS",
     "UncertaintyReport", "affinity_correction", "compare_with_design", "evaluate",
     "evaluate_dask", "monte_carlo_uncertainty", "propagate_uncertainty", "read_readings",
-    "readings_from_frame", "steady_state_flags",
+    "readings_from_frame", "steady_state_flags", "with_unit_headers",
 ]

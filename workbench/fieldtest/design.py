@@ -16,33 +16,54 @@ ISO 5801:2017, Fans - Performance testing using standardized airways (speed conv
 
 from __future__ import annotations
 
-import math
 from dataclasses import asdict, dataclass
 
 import numpy as np
 import pandas as pd
+import pint
 
 from ..errors import InputError
+from ..units import flag, fraction, optional_si, positive, text, to_si_array
+from .inputs import speed_rpm
+
+
+def _head(value):
+    """Head [J/kg or m]: a Quantity of specific energy or of length, or a plain number."""
+    if isinstance(value, pint.Quantity) and value.check("[length]"):
+        return positive(value, "length", "design head")
+    return optional_si(value, "specific_energy", "design head", low=0.0, low_open=True)
 
 
 @dataclass(frozen=True)
 class DesignPoint:
     """A datasheet or guarantee point.  Fields left ``None`` are not compared.
 
+    Every field is converted at construction through the input boundary: plain numbers
+    (SI, speed in rev/min), Decimal, numpy scalars or pint Quantities (``power=Q_(1.1,
+    "MW")``); text, booleans, NaN, infinity, zero, negative values and wrong units are
+    refused with an InputError naming the field.
+
     Attributes
     ----------
     isentropic_efficiency : float or None
-        Efficiency [-] (a fraction); compared with the result column named in
+        Efficiency [-] in (0, 1]; compared with the result column named in
         :func:`compare_with_design`.
     power : float or None
-        Power [W].
+        Power [W], positive.
     volume_flow : float or None
-        Inlet volume flow [m^3/s].
+        Inlet volume flow [m^3/s], positive.
     head : float or None
         Head in the units of the head column compared (e.g. isentropic head [J/kg] or pump
-        head [m]).
+        head [m]), positive; a Quantity of length is kept in m, of specific energy in J/kg.
     speed : float or None
-        Rated speed [rev/min]; with it, readings are corrected by the affinity laws.
+        Rated speed [rev/min], positive; with it, readings are corrected by the affinity
+        laws.  A Quantity in rpm, revolution/second or rad/s is converted.
+
+    Examples
+    --------
+    >>> from workbench.units import Q_
+    >>> DesignPoint(power=Q_(1.1, "MW"), speed=Q_(50, "revolution/second")).power
+    1100000.0
     """
 
     isentropic_efficiency: float | None = None
@@ -50,6 +71,20 @@ class DesignPoint:
     volume_flow: float | None = None
     head: float | None = None
     speed: float | None = None
+
+    def __post_init__(self):
+        checked = {
+            "isentropic_efficiency": None if self.isentropic_efficiency is None else fraction(
+                self.isentropic_efficiency, "design isentropic efficiency"),
+            "power": None if self.power is None else positive(self.power, "power",
+                                                              "design power"),
+            "volume_flow": None if self.volume_flow is None else positive(
+                self.volume_flow, "volume_flow", "design volume flow"),
+            "head": _head(self.head),
+            "speed": None if self.speed is None else speed_rpm(self.speed, "design speed"),
+        }
+        for name, value in checked.items():
+            object.__setattr__(self, name, value)
 
     def to_dict(self) -> dict:
         """Fields as a flat dict (SI units, speed in rev/min)."""
@@ -102,20 +137,47 @@ def affinity_correction(speed, rated_speed, volume_flow=None, head=None,
     References
     ----------
     ISO 9906:2012, section 6 (translation to the specified speed).
-    """
-    n = np.asarray(speed, dtype=float)
-    if not (isinstance(rated_speed, (int, float)) and math.isfinite(rated_speed)
-            and rated_speed > 0):
-        raise InputError(f"rated speed {rated_speed!r} must be a positive number")
-    with np.errstate(divide="ignore", invalid="ignore"):
-        ratio = np.where(n > 0, rated_speed / n, np.nan)
 
-    def scaled(values, power_of):
+    Examples
+    --------
+    >>> affinity_correction([2900.0], 2950.0, power=[60e3]).power.round(1)
+    array([63157.3])
+    """
+    rated = speed_rpm(rated_speed, "rated speed")
+    n = _speeds(speed)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        ratio = np.where(n > 0, rated / n, np.nan)
+
+    def scaled(values, power_of, kind, name):
         if values is None:
             return np.full(np.shape(ratio), np.nan)
-        return np.asarray(values, dtype=float) * ratio ** power_of
+        if kind == "head" and isinstance(values, pint.Quantity) and values.check("[length]"):
+            kind = "length"
+        array = to_si_array(values, "specific_energy" if kind == "head" else kind, name)
+        if len(array) not in (1, len(ratio)):
+            raise InputError(f"{name} has {len(array)} values but speed has {len(ratio)}: "
+                             "give one per speed reading")
+        return array * ratio ** power_of
 
-    return AffinityCorrection(ratio, scaled(volume_flow, 1), scaled(head, 2), scaled(power, 3))
+    fields = (ratio, scaled(volume_flow, 1, "volume_flow", "volume flow"),
+              scaled(head, 2, "head", "head"), scaled(power, 3, "power", "power"))
+    if np.ndim(getattr(speed, "magnitude", speed)) == 0:  # a single reading: 0-d arrays
+        fields = tuple(np.asarray(f).reshape(()) for f in fields)
+    return AffinityCorrection(*fields)
+
+
+def _speeds(speed) -> np.ndarray:
+    """Measured speeds [rev/min] as an array (a Quantity array converted to rpm)."""
+    if isinstance(speed, pint.Quantity):
+        if "hertz" in str(speed.units):
+            raise InputError("speed was given in Hz, which is ambiguous for a shaft speed: "
+                             "give rpm or revolution/second")
+        try:
+            speed = speed.to("rpm").magnitude
+        except pint.DimensionalityError:
+            raise InputError(f"speed was given in {speed.units:~P}, which is not a unit of "
+                             "rotational speed (rpm)") from None
+    return to_si_array(speed, "dimensionless", "speed")
 
 
 def compare_with_design(results: pd.DataFrame, design: DesignPoint, *,
@@ -153,12 +215,25 @@ def compare_with_design(results: pd.DataFrame, design: DesignPoint, *,
     ----------
     ISO 9906:2012 (deviation from the guarantee point after translation to rated speed).
     """
+    if not isinstance(results, pd.DataFrame):
+        raise InputError(f"results must be a pandas DataFrame, not {type(results).__name__}")
     if not isinstance(design, DesignPoint):
-        raise InputError("design must be a DesignPoint")
+        raise InputError(f"design must be a DesignPoint, not {type(design).__name__}")
+    for label, name in (("efficiency_column", efficiency_column),
+                        ("power_column", power_column), ("flow_column", flow_column),
+                        ("head_column", head_column), ("speed_column", speed_column)):
+        text(name, label)
+    if correct_speed is not None:
+        correct_speed = flag(correct_speed, "correct_speed")
     out = pd.DataFrame(index=results.index)
 
     def col(name):
-        return results[name].to_numpy(dtype=float) if name in results.columns else None
+        if name not in results.columns:
+            return None
+        try:
+            return pd.to_numeric(results[name], errors="coerce").to_numpy(dtype=float)
+        except (TypeError, ValueError):
+            raise InputError(f"column {name!r} of the results is not numeric") from None
 
     flow, head, power = col(flow_column), col(head_column), col(power_column)
     if correct_speed is None:
@@ -181,8 +256,7 @@ def compare_with_design(results: pd.DataFrame, design: DesignPoint, *,
                                   ("flow", flow, design.volume_flow),
                                   ("head", head, design.head)):
         if target is not None and values is not None:
-            if target == 0:
-                raise InputError(f"design {label} must not be zero")
+            # design values are positive (DesignPoint refuses zero)
             out[f"{label}_deviation_percent"] = 100.0 * (values / target - 1.0)
     return out
 

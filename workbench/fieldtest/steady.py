@@ -22,6 +22,11 @@ import numpy as np
 import pandas as pd
 
 from ..errors import InputError
+from ..units import count, flag
+from .inputs import any_si
+
+#: Most columns checked at once (a logger export has tens; a guard against a runaway list).
+MAX_COLUMNS = 10_000
 
 
 def steady_state_flags(frame: pd.DataFrame, columns, window: int, tolerance,
@@ -36,10 +41,11 @@ def steady_state_flags(frame: pd.DataFrame, columns, window: int, tolerance,
         Columns to check.
     window : int
         Number of consecutive rows in a window (at least 2).
-    tolerance : float or dict
-        Allowed maximum deviation from the window mean, per column (dict) or for all columns;
-        in the column's units, or a fraction of the window mean's magnitude when
-        ``relative=True`` (0.01 for 1 %).
+    tolerance : float, Quantity or dict
+        Allowed maximum deviation from the window mean, per column (dict) or for all columns,
+        not negative; in the column's SI unit (a Quantity is converted to SI base units;
+        temperatures as differences, K or delta_degC), or a fraction of the window mean's
+        magnitude when ``relative=True`` (0.01 for 1 %).
     relative : bool
         Tolerances are fractions of the window mean.
 
@@ -53,24 +59,23 @@ def steady_state_flags(frame: pd.DataFrame, columns, window: int, tolerance,
     References
     ----------
     ASME PTC 10-1997, section 5 (permissible fluctuations).
+
+    Examples
+    --------
+    >>> frame = pd.DataFrame({"p": [1.0, 1.0, 1.0, 5.0]})
+    >>> steady_state_flags(frame, ["p"], window=2, tolerance=0.5)["steady"].tolist()
+    [False, True, True, False]
     """
-    columns = list(columns)
-    if isinstance(window, bool) or not isinstance(window, (int, np.integer)) or window < 2:
-        raise InputError(f"window {window!r} must be a whole number of rows, at least 2")
-    missing = [c for c in columns if c not in frame.columns]
-    if missing:
-        raise InputError(f"column(s) {', '.join(map(repr, missing))} are not in the readings")
-    tolerances = tolerance if isinstance(tolerance, dict) else {c: tolerance for c in columns}
+    frame, columns = _checked_frame(frame, columns)
+    window = count(window, "window", low=2)
+    relative = flag(relative, "relative")
+    tolerances = _tolerances(tolerance, columns)
     out = pd.DataFrame(index=frame.index)
     steady = np.ones(len(frame), dtype=bool)
     if len(frame) < window:
         steady[:] = False
     for c in columns:
-        if c not in tolerances:
-            raise InputError(f"no tolerance given for column {c!r}")
-        tol = float(tolerances[c])
-        if not tol >= 0:
-            raise InputError(f"tolerance {tol!r} for column {c!r} must not be negative")
+        tol = tolerances[c]
         x = pd.to_numeric(frame[c], errors="coerce").to_numpy(dtype=float)
         deviation = np.full(len(x), np.nan)
         if len(x) >= window:
@@ -85,6 +90,41 @@ def steady_state_flags(frame: pd.DataFrame, columns, window: int, tolerance,
         out[f"{c}_max_deviation"] = deviation
     out["steady"] = steady
     return out
+
+
+def _checked_frame(frame, columns):
+    """The readings frame and the list of column names, refused by name when bad."""
+    if not isinstance(frame, pd.DataFrame):
+        raise InputError(f"readings must be a pandas DataFrame, not {type(frame).__name__}")
+    if isinstance(columns, (str, bytes)) or not hasattr(columns, "__iter__"):
+        raise InputError(f"columns must be a list of column names, not {columns!r:.60}")
+    columns = list(columns)
+    if len(columns) > MAX_COLUMNS:
+        raise InputError(f"columns lists {len(columns)} names, at most {MAX_COLUMNS}")
+    for c in columns:
+        if not isinstance(c, str):
+            raise InputError(f"columns must be column names (text), not {c!r:.60}")
+    missing = [c for c in columns if c not in frame.columns]
+    if missing:
+        raise InputError(f"column(s) {', '.join(map(repr, missing[:5]))} are not in the "
+                         "readings")
+    return frame, columns
+
+
+def _tolerances(tolerance, columns) -> dict:
+    """Tolerance per column, each a number not below zero (Quantities in SI base units)."""
+    if isinstance(tolerance, dict):
+        for key in tolerance:
+            if key not in columns:
+                raise InputError(f"tolerance given for {key!r:.60}, which is not a checked "
+                                 "column")
+        missing = [c for c in columns if c not in tolerance]
+        if missing:
+            raise InputError(f"no tolerance given for column {missing[0]!r}")
+        given = tolerance
+    else:
+        given = {c: tolerance for c in columns}
+    return {c: any_si(given[c], f"tolerance for column {c!r}", low=0.0) for c in columns}
 
 
 __all__ = ["steady_state_flags"]

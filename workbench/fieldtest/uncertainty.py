@@ -35,7 +35,12 @@ import numpy as np
 import pandas as pd
 
 from ..errors import InputError
+from ..units import count, text, to_si
 from .batch import evaluate
+from .inputs import any_si, reading_value
+
+#: Most readings or results an uncertainty study takes (a test has tens).
+MAX_ITEMS = 1000
 
 
 @dataclass(frozen=True)
@@ -53,6 +58,12 @@ class InstrumentUncertainty:
     systematic: float = 0.0
     random: float = 0.0
 
+    def __post_init__(self):
+        # numbers or Quantities (in SI base units; temperatures as differences), not negative
+        for name in ("systematic", "random"):
+            object.__setattr__(self, name, any_si(getattr(self, name),
+                                                  f"{name} uncertainty", low=0.0))
+
     @property
     def combined(self) -> float:
         """sqrt(b^2 + s^2), in the reading's unit."""
@@ -64,19 +75,15 @@ class InstrumentUncertainty:
 
 
 def _as_uncertainty(name, value) -> InstrumentUncertainty:
+    """(systematic, random) of reading ``name`` in its SI unit, each not negative."""
     if isinstance(value, InstrumentUncertainty):
-        u = value
-    else:
-        try:
-            b, s = value
-        except (TypeError, ValueError):
-            raise InputError(f"uncertainty of {name} must be (systematic, random) or an "
-                             f"InstrumentUncertainty, not {value!r}") from None
-        u = InstrumentUncertainty(float(b), float(s))
-    if not (u.systematic >= 0 and u.random >= 0):
-        raise InputError(f"uncertainties of {name} ({u.systematic}, {u.random}) must not be "
-                         "negative")
-    return u
+        return value
+    if isinstance(value, (str, bytes, dict)) or not hasattr(value, "__len__") or len(value) != 2:
+        raise InputError(f"uncertainty of {name} must be (systematic, random) or an "
+                         f"InstrumentUncertainty, not {value!r:.60}")
+    b, s = (reading_value(v, name, f"{what} uncertainty of {name}", difference=True, low=0.0)
+            for v, what in zip(value, ("systematic", "random")))
+    return InstrumentUncertainty(b, s)
 
 
 @dataclass(frozen=True)
@@ -163,11 +170,24 @@ class MonteCarloReport:
                                               "relative_standard_error")}
 
 
+def _results(results) -> tuple:
+    """Result names as a tuple of text (one name may be given alone)."""
+    if isinstance(results, str):
+        results = (results,)
+    if not hasattr(results, "__iter__") or isinstance(results, (bytes, dict)):
+        raise InputError(f"results must be a list of result names, not {results!r:.60}")
+    results = tuple(results)
+    if not results or len(results) > MAX_ITEMS:
+        raise InputError(f"results must name 1 to {MAX_ITEMS} results, not {len(results)}")
+    return tuple(text(r, "result name") for r in results)
+
+
 def _model(model, results, evaluate_options):
     if model is not None:
+        if not callable(model):
+            raise InputError(f"model must be a function of a readings frame, not "
+                             f"{type(model).__name__}")
         return model
-    if not results:
-        raise InputError("name the results whose uncertainty is wanted")
 
     def run(frame):
         return evaluate(frame, results=results, keep_inputs=False, **evaluate_options)
@@ -176,12 +196,44 @@ def _model(model, results, evaluate_options):
 
 
 def _checked(readings, uncertainties):
-    readings = {k: float(v) for k, v in readings.items()}
-    unknown = [k for k in uncertainties if k not in readings]
+    """Readings in SI units (rev/min for the speed) and their uncertainties, by name."""
+    for label, given in (("readings", readings), ("uncertainties", uncertainties)):
+        if not isinstance(given, dict):
+            raise InputError(f"{label} must be a dict of reading name -> value, not "
+                             f"{type(given).__name__}")
+        if len(given) > MAX_ITEMS:
+            raise InputError(f"{label} has {len(given)} entries, at most {MAX_ITEMS}")
+    if not readings:
+        raise InputError("readings is empty: give the nominal value of each reading")
+    readings = {text(k, "reading name"): reading_value(v, k, f"reading {k}")
+                for k, v in readings.items()}
+    unknown = [str(k) for k in uncertainties if k not in readings]
     if unknown:
-        raise InputError(f"uncertainty given for {', '.join(unknown)}, which are not readings")
+        raise InputError(f"uncertainty given for {', '.join(unknown)[:80]}, which are not "
+                         "readings")
     u = {k: _as_uncertainty(k, uncertainties.get(k, (0.0, 0.0))) for k in readings}
     return readings, u
+
+
+def _column(out, r, rows) -> np.ndarray:
+    """Result column ``r`` of the model's output, finite on the rows used."""
+    if not hasattr(out, "columns") or r not in out.columns:
+        raise InputError(f"the model's output has no column for result {r!r}")
+    try:
+        col = pd.to_numeric(out[r], errors="coerce").to_numpy(dtype=float)
+    except (TypeError, ValueError):
+        raise InputError(f"result {r!r} is not numeric") from None
+    if len(col) != rows:
+        raise InputError(f"the model returned {len(col)} rows for {rows} readings rows")
+    return col
+
+
+def _finite(report: dict, what: str) -> dict:
+    for r, value in report.items():
+        if not math.isfinite(value):
+            raise InputError(f"the {what} of result {r!r} is not finite ({value}): the result "
+                             "is not defined at these readings")
+    return report
 
 
 def propagate_uncertainty(readings: dict, uncertainties: dict, results=("isentropic_efficiency",
@@ -193,10 +245,12 @@ def propagate_uncertainty(readings: dict, uncertainties: dict, results=("isentro
     ----------
     readings : dict
         Reading name -> nominal value in SI units (names of
-        :data:`workbench.fieldtest.readers.READING_KINDS`).
+        :data:`workbench.fieldtest.readers.READING_KINDS`; speed in rev/min) or a pint
+        Quantity of the reading's kind.
     uncertainties : dict
         Reading name -> ``(systematic b, random s)`` standard uncertainties in the reading's SI
-        unit, or :class:`InstrumentUncertainty`; readings not listed are taken as exact.
+        unit (or Quantities; temperatures as differences, K or delta_degC), not negative, or
+        :class:`InstrumentUncertainty`; readings not listed are taken as exact.
     results : sequence of str
         Result names (keys of :data:`workbench.fieldtest.batch.RESULTS`).
     model : callable, optional
@@ -222,7 +276,9 @@ def propagate_uncertainty(readings: dict, uncertainties: dict, results=("isentro
     coefficients, large-sample expanded uncertainty U95 = 2 u).
     """
     readings, u = _checked(readings, uncertainties)
-    results = tuple(results)
+    results = _results(results)
+    step_fraction = to_si(step_fraction, "dimensionless", "step_fraction", low=0.0, high=10.0,
+                          low_open=True)
     run = _model(model, results, evaluate_options)
     names = list(readings)
     rows = [dict(readings)]
@@ -247,7 +303,7 @@ def propagate_uncertainty(readings: dict, uncertainties: dict, results=("isentro
                              f"({msg})")
     value, sens, sys_, ran, comb, exp_, share, dom = {}, {}, {}, {}, {}, {}, {}, {}
     for r in results:
-        col = out[r].to_numpy(dtype=float)
+        col = _column(out, r, len(frame))
         value[r] = float(col[0])
         theta = {n: float((col[1 + 2 * k] - col[2 + 2 * k]) / (2 * steps[n]))
                  for k, n in enumerate(names)}
@@ -261,6 +317,8 @@ def propagate_uncertainty(readings: dict, uncertainties: dict, results=("isentro
         share[r] = {n: (theta[n] ** 2 * u[n].combined ** 2 / total if total > 0 else 0.0)
                     for n in names}
         dom[r] = max(share[r], key=share[r].get) if total > 0 else None
+    _finite(value, "value")
+    _finite(comb, "propagated uncertainty")
     return UncertaintyReport(value, sens, sys_, ran, comb, exp_, share, dom)
 
 
@@ -274,9 +332,10 @@ def monte_carlo_uncertainty(readings: dict, uncertainties: dict, results=(
     readings, uncertainties, results, model
         As in :func:`propagate_uncertainty`.
     samples : int
-        Number of draws (at least 10).
+        Number of draws, 10 to 1,000,000.
     seed : int or None
-        Seed of the random generator (``numpy.random.default_rng``), for repeatable runs.
+        Seed of the random generator (``numpy.random.default_rng``), for repeatable runs;
+        a whole number from 0 to 1e12.
     **evaluate_options
         Options of :func:`workbench.fieldtest.evaluate` for the default model.
 
@@ -289,10 +348,10 @@ def monte_carlo_uncertainty(readings: dict, uncertainties: dict, results=(
     JCGM 101:2008 (propagation of distributions by Monte Carlo).
     ASME PTC 19.1-2013, Test Uncertainty (Monte Carlo as a check of the Taylor-series method).
     """
-    if isinstance(samples, bool) or not isinstance(samples, (int, np.integer)) or samples < 10:
-        raise InputError(f"samples {samples!r} must be a whole number, at least 10")
+    samples = count(samples, "samples", low=10, high=1_000_000)
+    seed = None if seed is None else count(seed, "seed", low=0)
     readings, u = _checked(readings, uncertainties)
-    results = tuple(results)
+    results = _results(results)
     run = _model(model, results, evaluate_options)
     rng = np.random.default_rng(seed)
     frame = pd.DataFrame({
@@ -305,7 +364,10 @@ def monte_carlo_uncertainty(readings: dict, uncertainties: dict, results=(
         raise InputError(f"only {n_ok} of {samples} Monte Carlo draws evaluated")
     mean, std, exp_, interval = {}, {}, {}, {}
     for r in results:
-        col = out[r].to_numpy(dtype=float)[ok]
+        col = _column(out, r, samples)[ok]
+        if not np.isfinite(col).all():
+            raise InputError(f"result {r!r} is not finite in some Monte Carlo draws that "
+                             "evaluated")
         mean[r] = float(col.mean())
         std[r] = float(col.std(ddof=1))
         exp_[r] = 2.0 * std[r]

@@ -26,9 +26,8 @@ from collections.abc import Sequence
 from dataclasses import dataclass
 
 from ..errors import InputError, SpecificationError
-from ..fluids import State
-from ..units import optional_si, to_si
-from .throttle import _check_state, _positive, _quality
+from ..properties import State
+from . import checks
 
 #: Relative tolerance on a mass balance (branch flows against the inlet flow) [-].
 MASS_BALANCE_TOLERANCE = 1e-9
@@ -52,6 +51,8 @@ class MixerResult:
         Heat lost to the surroundings [W] (positive out of the mixer).
     entropy_generation : float
         m_out s_out - sum(m_i s_i) + Q_loss / T_out [W/K], not negative for a real mixer.
+    cautions : tuple of str
+        Plain-language cautions: a two-phase outlet.
     """
 
     inlets: tuple
@@ -60,25 +61,26 @@ class MixerResult:
     mass_flow: float
     heat_loss: float
     entropy_generation: float
+    cautions: tuple[str, ...] = ()
+
+    @property
+    def outlet_quality(self) -> float:
+        """Vapour quality at the outlet [-], NaN when not defined (single-phase)."""
+        return self.outlet.quality
 
     def to_dict(self) -> dict:
-        """Flat dict of the result numbers (SI units, keys end with their unit)."""
-        d = {"device": "mixer", "fluid": self.outlet.fluid.name}
+        """Flat dict of the result numbers, SI units, keys from
+        :data:`workbench.fields.FIELDS`; inlet stream ``i`` (from 1) as ``stream_<i>_...``."""
+        items = [("device", "mixer"), ("fluid", self.outlet.fluid.name)]
         for i, (st, m) in enumerate(zip(self.inlets, self.inlet_mass_flows), start=1):
-            d[f"inlet_{i}_pressure_Pa"] = st.P
-            d[f"inlet_{i}_temperature_K"] = st.T
-            d[f"inlet_{i}_enthalpy_J_per_kg"] = st.h
-            d[f"inlet_{i}_mass_flow_kg_per_s"] = m
-        d.update({
-            "outlet_pressure_Pa": self.outlet.P,
-            "outlet_temperature_K": self.outlet.T,
-            "outlet_enthalpy_J_per_kg": self.outlet.h,
-            "outlet_quality": _quality(self.outlet),
-            "mass_flow_kg_per_s": self.mass_flow,
-            "heat_loss_W": self.heat_loss,
-            "entropy_generation_W_per_K": self.entropy_generation,
-        })
-        return d
+            items += checks.state_items(f"stream_{i}", st, ("pressure", "temperature",
+                                                            "enthalpy"))
+            items.append((f"stream_{i}_mass_flow", m))
+        items += checks.state_items("outlet", self.outlet, ("pressure", "temperature",
+                                                            "enthalpy", "quality"))
+        items += [("mass_flow", self.mass_flow), ("heat_loss", self.heat_loss),
+                  ("entropy_generation", self.entropy_generation)]
+        return checks.result_dict(items)
 
 
 @dataclass(frozen=True, eq=False)
@@ -95,12 +97,15 @@ class SplitterResult:
         Mass flow of each branch [kg/s], adding up to ``mass_flow``.
     fractions : tuple of float
         Branch flow over inlet flow [-].
+    cautions : tuple of str
+        Plain-language cautions: a two-phase inlet (a tee does not split phases evenly).
     """
 
     inlet: State
     mass_flow: float
     branch_mass_flows: tuple
     fractions: tuple
+    cautions: tuple[str, ...] = ()
 
     @property
     def outlets(self) -> tuple:
@@ -108,39 +113,40 @@ class SplitterResult:
         return tuple(self.inlet for _ in self.branch_mass_flows)
 
     def to_dict(self) -> dict:
-        """Flat dict of the result numbers (SI units, keys end with their unit)."""
-        d = {"device": "splitter", "fluid": self.inlet.fluid.name,
-             "pressure_Pa": self.inlet.P, "temperature_K": self.inlet.T,
-             "enthalpy_J_per_kg": self.inlet.h, "quality": _quality(self.inlet),
-             "mass_flow_kg_per_s": self.mass_flow}
+        """Flat dict of the result numbers, SI units, keys from
+        :data:`workbench.fields.FIELDS`; branch ``i`` (from 1) as ``branch_<i>_...``."""
+        items = [("device", "splitter"), ("fluid", self.inlet.fluid.name),
+                 *checks.state_items("", self.inlet), ("mass_flow", self.mass_flow)]
         for i, (m, f) in enumerate(zip(self.branch_mass_flows, self.fractions), start=1):
-            d[f"branch_{i}_mass_flow_kg_per_s"] = m
-            d[f"branch_{i}_fraction"] = f
-        return d
+            items += [(f"branch_{i}_mass_flow", m), (f"branch_{i}_split_fraction", f)]
+        return checks.result_dict(items)
+
+
+#: Most streams or branches a mixer or splitter takes (a header, not a data set).
+MAX_STREAMS = 1000
 
 
 def _listed(values, message: str) -> list:
     """``values`` as a list; ``message`` says what was expected when it is not a sequence."""
+    if isinstance(values, (str, bytes, dict, set)) or not hasattr(values, "__iter__"):
+        raise InputError(message)
     try:
-        return list(values)
+        items = list(values)
     except TypeError:
         raise InputError(message) from None
+    if len(items) > MAX_STREAMS:
+        raise InputError(f"{message}; {len(items)} given, at most {MAX_STREAMS}")
+    return items
 
 
 def _fraction_flow(i: int, value, mass_flow: float) -> float:
     """Mass flow [kg/s] of branch ``i`` from its split fraction [-] of ``mass_flow``."""
-    f = to_si(value, "dimensionless", f"split fraction of branch {i}")
-    if not 0.0 <= f <= 1.0:
-        raise InputError(f"split fraction of branch {i} is {f:g}; it must lie in [0, 1]")
-    return f * mass_flow
+    return checks.fraction(value, f"split fraction of branch {i}", allow_zero=True) * mass_flow
 
 
 def _branch_flow(i: int, value, mass_flow: float) -> float:
     """Mass flow [kg/s] of branch ``i`` as given (``mass_flow`` is not needed)."""
-    b = to_si(value, "mass_flow", f"mass flow of branch {i}")
-    if b < 0:
-        raise InputError(f"mass flow of branch {i} is {b:g} kg/s; it must not be negative")
-    return b
+    return checks.not_negative(value, "mass_flow", f"mass flow of branch {i}")
 
 
 def mixer(streams: Sequence, *, P_out=None, heat_loss=0.0) -> MixerResult:
@@ -181,30 +187,35 @@ def mixer(streams: Sequence, *, P_out=None, heat_loss=0.0) -> MixerResult:
             state, m = item
         except (TypeError, ValueError):
             raise InputError(f"mixer stream {i} must be a (State, mass flow) pair") from None
-        states.append(_check_state(f"mixer stream {i} state", state))
-        flows.append(_positive(m, "mass_flow", f"mixer stream {i} mass flow", "kg/s"))
+        states.append(checks.state(state, f"mixer stream {i} state"))
+        flows.append(checks.positive(m, "mass_flow", f"mixer stream {i} mass flow"))
     fluid = states[0].fluid
     for i, st in enumerate(states[1:], start=2):
         if st.fluid != fluid:
             raise InputError(f"mixer stream {i} is {st.fluid.name} but stream 1 is {fluid.name}: "
                              "the mixer balances streams of one fluid")
     P_low = min(st.P for st in states)
-    P2 = optional_si(P_out, "pressure", "mixer outlet pressure")
+    P2 = checks.optional(P_out, "pressure", "mixer outlet pressure")
     if P2 is None:
         P2 = P_low
     elif not 0 < P2 <= P_low * (1 + 1e-12):
         raise InputError(
             f"mixer outlet pressure {P2 / 1e5:.6g} bar must lie in (0, {P_low / 1e5:.6g}] bar, "
             "not above the lowest inlet pressure")
-    Q = to_si(heat_loss, "power", "mixer heat loss")
+    Q = checks.number(heat_loss, "heat_flow", "mixer heat loss")
     m_out = math.fsum(flows)
     h_out = (math.fsum(m * st.h for st, m in zip(states, flows)) - Q) / m_out
     warm = max(states, key=lambda st: st.T)
     outlet = fluid.state_Ph(P2, h_out, T_guess=warm.T)
     s_gen = (m_out * outlet.s - math.fsum(m * st.s for st, m in zip(states, flows))
              + Q / outlet.T)
+    cautions = ()
+    if outlet.two_phase:
+        cautions = (f"the mixed stream is two-phase (outlet quality {outlet.quality:.3f}): "
+                    "the header carries liquid and vapour",)
     return MixerResult(inlets=tuple(states), inlet_mass_flows=tuple(flows), outlet=outlet,
-                       mass_flow=m_out, heat_loss=Q, entropy_generation=s_gen)
+                       mass_flow=m_out, heat_loss=Q, entropy_generation=s_gen,
+                       cautions=cautions)
 
 
 def splitter(inlet: State, mass_flow, *, fractions=None, branch_mass_flows=None) -> SplitterResult:
@@ -240,8 +251,8 @@ def splitter(inlet: State, mass_flow, *, fractions=None, branch_mass_flows=None)
     ----------
     Steady-flow mass balance (common practice).
     """
-    inlet = _check_state("splitter inlet", inlet)
-    m = _positive(mass_flow, "mass_flow", "splitter mass flow", "kg/s")
+    inlet = checks.state(inlet, "splitter inlet")
+    m = checks.positive(mass_flow, "mass_flow", "splitter mass flow")
     if (fractions is None) == (branch_mass_flows is None):
         raise SpecificationError("give the splitter branch fractions or the branch mass flows "
                                  "(exactly one of them)")
@@ -268,8 +279,13 @@ def splitter(inlet: State, mass_flow, *, fractions=None, branch_mass_flows=None)
         raise SpecificationError(
             f"the {what} add up to {known:.9g} kg/s but the splitter inlet flow is {m:.9g} kg/s: "
             "the mass balance must close")
+    cautions = ()
+    if inlet.two_phase:
+        cautions = (f"the inlet is two-phase (quality {inlet.quality:.3f}): a tee does not "
+                    "split liquid and vapour evenly, so the branch qualities may differ from "
+                    "the inlet's (common practice)",)
     return SplitterResult(inlet=inlet, mass_flow=m, branch_mass_flows=tuple(values),
-                          fractions=tuple(v / m for v in values))
+                          fractions=tuple(v / m for v in values), cautions=cautions)
 
 
 __all__ = ["MASS_BALANCE_TOLERANCE", "MixerResult", "SplitterResult", "mixer", "splitter"]

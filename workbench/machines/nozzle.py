@@ -28,9 +28,8 @@ import math
 from dataclasses import dataclass
 
 from ..errors import InputError, SpecificationError
-from ..fluids import State
-from ..units import to_si
-from .throttle import _check_below_inlet, _check_state, _not_negative, _positive, _quality
+from ..properties import State
+from . import checks
 
 
 @dataclass(frozen=True, eq=False)
@@ -54,11 +53,16 @@ class PassageResult:
     stagnation_enthalpy : float
         h + V^2/2, equal at inlet and outlet [J/kg].
     inlet_area, outlet_area : float
-        Flow areas from continuity A = m / (rho V) [m^2]; infinite at zero velocity.
+        Flow areas from continuity A = m / (rho V) [m^2]; NaN when not defined (zero
+        velocity at that end).
     area_ratio : float
-        Outlet over inlet flow area [-]; NaN when the inlet velocity is zero.
+        Outlet over inlet flow area [-]; NaN when not defined (a velocity is zero).
     outlet_mach_number : float
-        Outlet velocity over the outlet speed of sound [-] (NaN when two-phase).
+        Outlet velocity over the outlet speed of sound [-]; NaN when not defined (two-phase
+        outlet).
+    cautions : tuple of str
+        Plain-language cautions: a supersonic outlet of a nozzle, a supersonic diffuser
+        inlet, a wet outlet.
     """
 
     kind: str
@@ -74,86 +78,92 @@ class PassageResult:
     outlet_area: float
     area_ratio: float
     outlet_mach_number: float
+    cautions: tuple[str, ...] = ()
 
     @property
     def velocity_coefficient(self) -> float:
         """Square root of the isentropic efficiency (nozzles) [-]."""
         return math.sqrt(self.isentropic_efficiency)
 
+    @property
+    def outlet_quality(self) -> float:
+        """Vapour quality at the outlet [-], NaN when not defined (single-phase)."""
+        return self.outlet.quality
+
     def to_dict(self) -> dict:
-        """Flat dict of the result numbers (SI units, keys end with their unit)."""
-        return {
-            "device": self.kind,
-            "fluid": self.inlet.fluid.name,
-            "inlet_pressure_Pa": self.inlet.P,
-            "inlet_temperature_K": self.inlet.T,
-            "inlet_enthalpy_J_per_kg": self.inlet.h,
-            "outlet_pressure_Pa": self.outlet.P,
-            "outlet_temperature_K": self.outlet.T,
-            "outlet_enthalpy_J_per_kg": self.outlet.h,
-            "outlet_quality": _quality(self.outlet),
-            "mass_flow_kg_per_s": self.mass_flow,
-            "velocity_in_m_per_s": self.velocity_in,
-            "velocity_out_m_per_s": self.velocity_out,
-            "isentropic_efficiency": self.isentropic_efficiency,
-            "stagnation_enthalpy_J_per_kg": self.stagnation_enthalpy,
-            "inlet_area_m2": self.inlet_area,
-            "outlet_area_m2": self.outlet_area,
-            "area_ratio": self.area_ratio,
-            "outlet_mach_number": self.outlet_mach_number,
-        }
+        """Flat dict of the result numbers, SI units, keys from
+        :data:`workbench.fields.FIELDS`."""
+        return checks.result_dict([
+            ("device", self.kind), ("fluid", self.inlet.fluid.name),
+            *checks.state_items("inlet", self.inlet, ("pressure", "temperature", "enthalpy")),
+            *checks.state_items("outlet", self.outlet, ("pressure", "temperature", "enthalpy",
+                                                        "quality")),
+            ("mass_flow", self.mass_flow), ("velocity_in", self.velocity_in),
+            ("velocity_out", self.velocity_out),
+            ("isentropic_efficiency", self.isentropic_efficiency),
+            ("velocity_coefficient", self.velocity_coefficient),
+            ("stagnation_enthalpy", self.stagnation_enthalpy),
+            ("inlet_area", self.inlet_area), ("outlet_area", self.outlet_area),
+            ("area_ratio", self.area_ratio), ("outlet_mach_number", self.outlet_mach_number),
+        ])
 
 
 def _area(m, rho, V):
-    return math.inf if V == 0 else m / (rho * V)
+    """Flow area m / (rho V) [m^2]; NaN (not defined) at zero velocity."""
+    return math.nan if V == 0 else m / (rho * V)
 
 
-def _efficiency(name, value):
-    value = to_si(value, "dimensionless", name)
-    if not 0.0 < value <= 1.0:
-        raise InputError(f"{name} {value:g} is outside the allowed range (0, 1]")
-    return value
-
-
-def _inlet_and_flow(kind, inlet, mass_flow):
-    """Checked inlet state and mass flow [kg/s] of a nozzle or diffuser."""
-    return (_check_state(f"{kind} inlet", inlet),
-            _positive(mass_flow, "mass_flow", f"{kind} mass flow", "kg/s"))
+def _cautions(kind, inlet, outlet, V1, mach_out):
+    notes = []
+    if kind == "nozzle" and mach_out > 1.0:
+        notes.append(f"the outlet Mach number is {mach_out:.3g}: a convergent nozzle chokes at "
+                     "Mach 1; this expansion needs a convergent-divergent passage")
+    if kind == "diffuser":
+        a1 = inlet.fluid.speed_of_sound(inlet)
+        if a1 > 0 and V1 / a1 > 1.0:
+            notes.append(f"the inlet Mach number is {V1 / a1:.3g}: a supersonic diffuser "
+                         "decelerates through shocks, so its efficiency is not that of a "
+                         "subsonic passage")
+    if outlet.two_phase:
+        notes.append(f"the outlet is wet (quality {outlet.quality:.3f}): the Mach number is not "
+                     "computed and droplets erode the passage")
+    return tuple(notes)
 
 
 def _finish(kind, inlet, outlet, iso, m, V1, V2, eta):
     A1, A2 = _area(m, inlet.rho, V1), _area(m, outlet.rho, V2)
     a2 = outlet.fluid.speed_of_sound(outlet)
+    mach = V2 / a2 if a2 > 0 else math.nan
     return PassageResult(
         kind=kind, inlet=inlet, outlet=outlet, isentropic_outlet=iso, mass_flow=m,
         velocity_in=V1, velocity_out=V2, isentropic_efficiency=eta,
         stagnation_enthalpy=inlet.h + V1 ** 2 / 2, inlet_area=A1, outlet_area=A2,
-        area_ratio=A2 / A1 if V1 > 0 else math.nan,
-        outlet_mach_number=V2 / a2 if a2 > 0 else math.nan)
+        area_ratio=A2 / A1 if V1 > 0 and V2 > 0 else math.nan, outlet_mach_number=mach,
+        cautions=_cautions(kind, inlet, outlet, V1, mach))
 
 
-def nozzle(inlet: State, P_out, *, isentropic_efficiency=None, velocity_coefficient=None,
-           velocity_in=0.0, mass_flow=1.0) -> PassageResult:
+def nozzle(inlet: State, mass_flow, *, P_out, isentropic_efficiency=None,
+           velocity_coefficient=None, velocity_in=0.0) -> PassageResult:
     """Outlet velocity and state of a nozzle from the energy balance.
 
     Assumptions: steady, adiabatic, no shaft work, potential energy neglected; the flow
     follows the pressure given (no check of choking: a Mach number above 1 at the outlet
-    means the passage must be convergent-divergent).
+    means the passage must be convergent-divergent, and the result carries a caution).
 
     Parameters
     ----------
     inlet : State
         Static inlet state.
+    mass_flow : float or Quantity
+        Mass flow [kg/s], positive, for the flow areas (required).
     P_out : float or Quantity
-        Outlet static pressure [Pa], below the inlet pressure.
+        Outlet static pressure [Pa], below the inlet pressure (keyword-only).
     isentropic_efficiency : float, optional
         Nozzle efficiency (h01 - h2) / (h01 - h2s) [-] in (0, 1]; default 1.
     velocity_coefficient : float, optional
         V2 / V2s [-] in (0, 1]; give this or the efficiency, not both.
     velocity_in : float or Quantity
         Inlet velocity [m/s], not negative (0: from rest).
-    mass_flow : float or Quantity
-        Mass flow [kg/s], for the flow areas.
 
     Returns
     -------
@@ -163,32 +173,41 @@ def nozzle(inlet: State, P_out, *, isentropic_efficiency=None, velocity_coeffici
     ----------
     Steady-flow energy equation; the nozzle efficiency and velocity coefficient as defined
     in the module notes (common practice).
+
+    Examples
+    --------
+    >>> import workbench as wb
+    >>> steam = wb.Fluid("Water", backend="IF97")
+    >>> r = nozzle(steam.state(P=10e5, T=573.15), 1.0, P_out=5e5)
+    >>> round(r.velocity_out)
+    575
     """
-    inlet, m = _inlet_and_flow("nozzle", inlet, mass_flow)
-    P2 = _positive(P_out, "pressure", "nozzle outlet pressure", "Pa")
-    V1 = _not_negative(velocity_in, "velocity", "nozzle inlet velocity", "m/s")
+    inlet = checks.state(inlet, "nozzle inlet")
+    m = checks.positive(mass_flow, "mass_flow", "nozzle mass flow")
+    P2 = checks.positive(P_out, "pressure", "nozzle outlet pressure")
+    V1 = checks.not_negative(velocity_in, "velocity", "nozzle inlet velocity")
     if isentropic_efficiency is not None and velocity_coefficient is not None:
         raise SpecificationError("give the nozzle isentropic efficiency or its velocity "
                                  "coefficient, not both")
     if velocity_coefficient is not None:
-        eta = _efficiency("nozzle velocity coefficient", velocity_coefficient) ** 2
+        eta = checks.fraction(velocity_coefficient, "nozzle velocity coefficient") ** 2
     elif isentropic_efficiency is not None:
-        eta = _efficiency("nozzle isentropic efficiency", isentropic_efficiency)
+        eta = checks.fraction(isentropic_efficiency, "nozzle isentropic efficiency")
     else:
         eta = 1.0
-    _check_below_inlet("nozzle", P2, inlet, "a nozzle accelerates the flow by lowering "
+    checks.below_inlet("nozzle", P2, inlet, "a nozzle accelerates the flow by lowering "
                        "pressure (use diffuser for the reverse)")
     fluid = inlet.fluid
     h01 = inlet.h + V1 ** 2 / 2
     iso = fluid.state_Ps(P2, inlet.s, T_guess=inlet.T)
     h2 = h01 - eta * (h01 - iso.h)
     outlet = fluid.state_Ph(P2, h2, T_guess=iso.T)
-    V2 = math.sqrt(2.0 * (h01 - h2))
+    V2 = math.sqrt(2.0 * max(h01 - h2, 0.0))
     return _finish("nozzle", inlet, outlet, iso, m, V1, V2, eta)
 
 
-def diffuser(inlet: State, velocity_in, *, velocity_out=0.0, isentropic_efficiency=1.0,
-             mass_flow=1.0) -> PassageResult:
+def diffuser(inlet: State, mass_flow, *, velocity_in, velocity_out=0.0,
+             isentropic_efficiency=1.0) -> PassageResult:
     """Outlet pressure of a diffuser from the energy balance.
 
     Assumptions: steady, adiabatic, no shaft work, potential energy neglected.  The static
@@ -200,14 +219,14 @@ def diffuser(inlet: State, velocity_in, *, velocity_out=0.0, isentropic_efficien
     ----------
     inlet : State
         Static inlet state.
+    mass_flow : float or Quantity
+        Mass flow [kg/s], positive, for the flow areas (required).
     velocity_in : float or Quantity
-        Inlet velocity [m/s], positive.
+        Inlet velocity [m/s], positive (keyword-only).
     velocity_out : float or Quantity
         Outlet velocity [m/s], in [0, velocity_in).
     isentropic_efficiency : float
         Diffuser efficiency (h2s - h1) / (h2 - h1) [-] in (0, 1].
-    mass_flow : float or Quantity
-        Mass flow [kg/s], for the flow areas.
 
     Returns
     -------
@@ -217,11 +236,20 @@ def diffuser(inlet: State, velocity_in, *, velocity_out=0.0, isentropic_efficien
     ----------
     Steady-flow energy equation; the diffuser efficiency as defined in the module notes
     (common practice).
+
+    Examples
+    --------
+    >>> import workbench as wb
+    >>> air = wb.Fluid("Air")
+    >>> r = diffuser(air.state(P=1e5, T=300.0), 1.0, velocity_in=200.0)
+    >>> round(r.outlet.P / 1e5, 3)
+    1.252
     """
-    inlet, m = _inlet_and_flow("diffuser", inlet, mass_flow)
-    V1 = _positive(velocity_in, "velocity", "diffuser inlet velocity", "m/s")
-    V2 = to_si(velocity_out, "velocity", "diffuser outlet velocity")
-    eta = _efficiency("diffuser isentropic efficiency", isentropic_efficiency)
+    inlet = checks.state(inlet, "diffuser inlet")
+    m = checks.positive(mass_flow, "mass_flow", "diffuser mass flow")
+    V1 = checks.positive(velocity_in, "velocity", "diffuser inlet velocity")
+    V2 = checks.number(velocity_out, "velocity", "diffuser outlet velocity")
+    eta = checks.fraction(isentropic_efficiency, "diffuser isentropic efficiency")
     if not 0.0 <= V2 < V1:
         raise InputError(
             f"diffuser outlet velocity {V2:g} m/s must lie in [0, {V1:g}) m/s, below the "
@@ -240,15 +268,29 @@ def velocity_from_area(mass_flow, density, area) -> float:
     Parameters
     ----------
     mass_flow : float or Quantity
-        Mass flow [kg/s].
+        Mass flow [kg/s], positive.
     density : float or Quantity
-        Density [kg/m^3].
+        Density [kg/m^3], positive.
     area : float or Quantity
-        Flow area [m^2].
+        Flow area [m^2], positive.
+
+    Returns
+    -------
+    float
+        Mean velocity [m/s].
+
+    References
+    ----------
+    Continuity of a steady flow (common practice).
+
+    Examples
+    --------
+    >>> velocity_from_area(2.0, 1000.0, 0.01)
+    0.2
     """
-    m = _positive(mass_flow, "mass_flow", "mass flow", "kg/s")
-    rho = _positive(density, "density", "density", "kg/m^3")
-    A = _positive(area, "area", "flow area", "m^2")
+    m = checks.positive(mass_flow, "mass_flow", "mass flow")
+    rho = checks.positive(density, "density", "density")
+    A = checks.positive(area, "area", "flow area")
     return m / (rho * A)
 
 

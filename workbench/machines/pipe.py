@@ -31,28 +31,17 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass
 
-import pint
 from fluids.friction import friction_factor as _fluids_friction_factor
 
-from ..errors import InputError, SpecificationError
-from ..fluids import State
-from ..units import to_si
-from .throttle import _check_state, _not_negative, _positive
+from ..errors import InputError, SpecificationError, WorkbenchError
+from ..properties import State
+from . import checks
 from .turbomachine import STANDARD_GRAVITY
 
 #: Absolute roughness of new commercial steel pipe [m] (0.045 mm, from memory).
 COMMERCIAL_STEEL_ROUGHNESS = 4.5e-5
-
-
-def _viscosity(value) -> float:
-    """Dynamic viscosity [Pa s] from a float or a pint Quantity."""
-    if isinstance(value, pint.Quantity):
-        try:
-            value = value.to("Pa*s").magnitude
-        except pint.DimensionalityError:
-            raise InputError(f"viscosity was given in {value.units:~P}, which is not a unit of "
-                             "dynamic viscosity (Pa s)") from None
-    return to_si(value, "dimensionless", "viscosity")
+#: Largest relative roughness e/D accepted (the top of the Moody chart, from memory) [-].
+MAX_RELATIVE_ROUGHNESS = 0.05
 
 
 def _check_liquid(name, state):
@@ -62,6 +51,29 @@ def _check_liquid(name, state):
             f"{state.P / 1e5:.5g} bar: the pipe balance is for an incompressible liquid")
 
 
+def _vapour_pressure(fluid, T: float) -> float:
+    """Saturation pressure [Pa] at T [K]; NaN where not defined (mixture, T >= T_critical)."""
+    if fluid.is_mixture or not T < fluid.T_critical:
+        return math.nan
+    try:
+        return fluid.saturation_pressure(T)
+    except WorkbenchError:
+        return math.nan
+
+
+def _liquid_viscosity(inlet: State, viscosity) -> float:
+    """Dynamic viscosity [Pa s]: the override given, or the fluid's at the inlet state."""
+    if viscosity is not None:
+        return checks.number(viscosity, "dynamic_viscosity", "viscosity", low=0.0, high=1e3,
+                             low_open=True)
+    try:
+        return inlet.fluid.viscosity(inlet)
+    except WorkbenchError as exc:
+        raise SpecificationError(
+            f"the pipe friction needs the liquid's dynamic viscosity and the fluid gives none "
+            f"({exc}); give viscosity=... [Pa s] or friction_factor=...") from None
+
+
 @dataclass(frozen=True, eq=False)
 class PipeResult:
     """Result of a pipe segment with an incompressible liquid.  All numbers in SI units.
@@ -69,7 +81,8 @@ class PipeResult:
     Attributes
     ----------
     inlet, outlet : State
-        Inlet and outlet states.
+        Inlet and outlet states (the outlet is always a liquid: a segment whose liquid would
+        boil is refused).
     mass_flow : float
         Mass flow [kg/s].
     density : float
@@ -79,7 +92,7 @@ class PipeResult:
     elevation_change : float
         Outlet elevation above the inlet [m].
     reynolds_number : float
-        rho V1 D / mu [-] (NaN when the friction factor was given).
+        rho V1 D / mu [-]; NaN when not defined (friction factor given, or no length).
     friction_factor : float
         Darcy friction factor [-].
     friction_loss : float
@@ -88,6 +101,11 @@ class PipeResult:
         Power added to the liquid by a pump in the segment [W].
     heat_loss : float
         Heat lost to the surroundings [W] (positive out of the pipe).
+    vapour_pressure : float
+        Vapour pressure of the liquid at the outlet temperature [Pa]; NaN when not defined
+        (above the critical temperature, mixtures).
+    cautions : tuple of str
+        Plain-language cautions: a pump whose suction may fall below the vapour pressure.
     """
 
     inlet: State
@@ -102,6 +120,8 @@ class PipeResult:
     friction_loss: float
     pump_power: float
     heat_loss: float
+    vapour_pressure: float = math.nan
+    cautions: tuple[str, ...] = ()
 
     @property
     def pressure_drop(self) -> float:
@@ -119,20 +139,20 @@ class PipeResult:
         return self.mass_flow / self.density
 
     def to_dict(self) -> dict:
-        """Flat dict of the result numbers (SI units, keys end with their unit)."""
-        return {
-            "device": "pipe", "fluid": self.inlet.fluid.name,
-            "inlet_pressure_Pa": self.inlet.P, "inlet_temperature_K": self.inlet.T,
-            "outlet_pressure_Pa": self.outlet.P, "outlet_temperature_K": self.outlet.T,
-            "mass_flow_kg_per_s": self.mass_flow, "density_kg_per_m3": self.density,
-            "volume_flow_m3_per_s": self.volume_flow,
-            "velocity_in_m_per_s": self.velocity_in, "velocity_out_m_per_s": self.velocity_out,
-            "elevation_change_m": self.elevation_change,
-            "reynolds_number": self.reynolds_number, "friction_factor": self.friction_factor,
-            "friction_loss_J_per_kg": self.friction_loss, "head_loss_m": self.head_loss,
-            "pressure_drop_Pa": self.pressure_drop, "pump_power_W": self.pump_power,
-            "heat_loss_W": self.heat_loss,
-        }
+        """Flat dict of the result numbers, SI units, keys from
+        :data:`workbench.fields.FIELDS`."""
+        return checks.result_dict([
+            ("device", "pipe"), ("fluid", self.inlet.fluid.name),
+            *checks.state_items("inlet", self.inlet, ("pressure", "temperature")),
+            *checks.state_items("outlet", self.outlet, ("pressure", "temperature")),
+            ("mass_flow", self.mass_flow), ("density", self.density),
+            ("volume_flow", self.volume_flow), ("velocity_in", self.velocity_in),
+            ("velocity_out", self.velocity_out), ("elevation_change", self.elevation_change),
+            ("reynolds_number", self.reynolds_number), ("friction_factor", self.friction_factor),
+            ("friction_loss", self.friction_loss), ("head_loss", self.head_loss),
+            ("pressure_drop", self.pressure_drop), ("pump_power", self.pump_power),
+            ("heat_loss", self.heat_loss), ("vapour_pressure", self.vapour_pressure),
+        ])
 
 
 def darcy_friction_factor(reynolds_number, relative_roughness=0.0) -> float:
@@ -154,14 +174,55 @@ def darcy_friction_factor(reynolds_number, relative_roughness=0.0) -> float:
     References
     ----------
     Colebrook (1939); fluids.friction.friction_factor.
+
+    Examples
+    --------
+    >>> darcy_friction_factor(1000.0)
+    0.064
     """
-    Re = to_si(reynolds_number, "dimensionless", "Reynolds number")
-    eD = to_si(relative_roughness, "dimensionless", "relative roughness")
-    if not Re > 0:
-        raise InputError(f"Reynolds number {Re:g} must be positive")
-    if not 0.0 <= eD <= 0.05:
-        raise InputError(f"relative roughness {eD:g} must lie in [0, 0.05]")
-    return float(_fluids_friction_factor(Re=Re, eD=eD))
+    Re = checks.positive(reynolds_number, "dimensionless", "Reynolds number")
+    eD = checks.number(relative_roughness, "dimensionless", "relative roughness", low=0.0,
+                       high=MAX_RELATIVE_ROUGHNESS)
+    f = float(_fluids_friction_factor(Re=Re, eD=eD))
+    if not (math.isfinite(f) and f > 0):
+        raise InputError(f"no friction factor for Reynolds number {Re:g} and relative "
+                         f"roughness {eD:g}")
+    return f
+
+
+def _boiling(name, P, Pv, T, fluid):
+    return SpecificationError(
+        f"the pipe {name} pressure comes out at {P / 1e5:.6g} bar, below the vapour pressure "
+        f"{Pv / 1e5:.6g} bar of {fluid.name} at {T:.5g} K ({T - 273.15:.4g} degC): the liquid "
+        "would boil (flash, cavitate) in the pipe; raise the inlet pressure or lower the rise, "
+        "the losses or the temperature")
+
+
+def _outlet(inlet, P2, h2, rho, w):
+    """Outlet state; refuse a liquid that would boil, caution on a pump's suction."""
+    fluid = inlet.fluid
+    if not P2 > 0:
+        raise SpecificationError(
+            f"the pipe outlet pressure comes out at {P2 / 1e5:.6g} bar (absolute), not positive: "
+            "the liquid cannot rise that far or lose that much head; raise the inlet pressure")
+    Pv_in = _vapour_pressure(fluid, inlet.T)
+    if P2 < Pv_in:
+        raise _boiling("outlet", P2, Pv_in, inlet.T, fluid)
+    outlet = fluid.state_Ph(P2, h2, T_guess=inlet.T)
+    Pv = _vapour_pressure(fluid, outlet.T)
+    if outlet.two_phase or outlet.phase == "gas" or P2 < Pv:
+        T = fluid.saturation_temperature(P2) if outlet.two_phase else outlet.T
+        raise _boiling("outlet", P2, _vapour_pressure(fluid, T) if P2 >= Pv else Pv, T, fluid)
+    cautions = []
+    # A pump anywhere in the segment: placed at the outlet end, the liquid reaches it before
+    # gaining the pump's head, so the lowest pressure is P2 - rho w.
+    P_before_pump = P2 - rho * w
+    if w > 0 and P_before_pump < max(Pv, Pv_in):
+        cautions.append(
+            f"if the pump sits at the outlet end, the pressure before it falls to "
+            f"{P_before_pump / 1e5:.4g} bar, below the vapour pressure {max(Pv, Pv_in) / 1e5:.4g} "
+            "bar: the liquid would boil there; put the pump near the inlet and check its NPSH")
+    return outlet, Pv, tuple(cautions)
 
 
 def pipe_segment(inlet: State, mass_flow, diameter, *, length=0.0, outlet_diameter=None,
@@ -172,14 +233,22 @@ def pipe_segment(inlet: State, mass_flow, diameter, *, length=0.0, outlet_diamet
 
     Assumptions: steady flow of an incompressible liquid (density of the inlet state),
     uniform velocity over each cross-section, friction from Darcy-Weisbach on the inlet
-    diameter; see the module notes.
+    diameter, a uniform slope (so the pressure along the pipe lies between its end values;
+    a route that rises above both ends, a siphon, must be given as two segments); see the
+    module notes.
+
+    The liquid must stay liquid: a segment whose outlet pressure falls below the liquid's
+    vapour pressure (water at 80 degC in a pipe rising 8 m from 1 bar) is **refused** with a
+    message naming the vapour pressure, because the incompressible balance no longer holds
+    once the liquid flashes.  With a pump in the segment, whose position is not known, a
+    pressure below the vapour pressure just before a pump at the outlet end gives a caution.
 
     Parameters
     ----------
     inlet : State
         Inlet state, a liquid.
     mass_flow : float or Quantity
-        Mass flow [kg/s], positive.
+        Mass flow [kg/s], positive (required).
     diameter : float or Quantity
         Inner diameter of the pipe [m] (inlet).
     length : float or Quantity
@@ -189,12 +258,13 @@ def pipe_segment(inlet: State, mass_flow, diameter, *, length=0.0, outlet_diamet
     elevation_change : float or Quantity
         Outlet elevation minus inlet elevation [m].
     roughness : float or Quantity
-        Absolute wall roughness [m]; default commercial steel 0.045 mm.
-    viscosity : float, optional
-        Dynamic viscosity of the liquid [Pa s]; needed for friction unless
-        ``friction_factor`` is given.
+        Absolute wall roughness [m], at most 0.05 of the diameter; default commercial steel
+        0.045 mm.
+    viscosity : float or Quantity, optional
+        Dynamic viscosity of the liquid [Pa s]; default the fluid's own at the inlet state.
+        Give it to override the property model (or when the fluid has no viscosity model).
     friction_factor : float, optional
-        Darcy friction factor [-], to override the correlation.
+        Darcy friction factor [-] in (0, 1), to override the correlation.
     minor_loss_coefficient : float
         Sum of the loss coefficients of fittings and valves, on the inlet velocity head [-].
     pump_power : float or Quantity
@@ -209,46 +279,50 @@ def pipe_segment(inlet: State, mass_flow, diameter, *, length=0.0, outlet_diamet
     Raises
     ------
     InputError
-        A gas or two-phase inlet, bad dimensions, a negative pump power.
+        A gas or two-phase inlet, bad dimensions, a velocity above 1000 m/s, a negative pump
+        power.
     SpecificationError
-        Friction needed but neither a viscosity nor a friction factor given, or a result
-        below zero absolute pressure.
+        An outlet below zero absolute pressure or below the liquid's vapour pressure;
+        friction needed but no viscosity known.
 
     References
     ----------
     Colebrook (1939); the `fluids` package for the friction factor.
+
+    Examples
+    --------
+    >>> import workbench as wb
+    >>> water = wb.Fluid("Water")
+    >>> r = pipe_segment(water.state(P=3e5, T=293.15), 10.0, 0.1, length=100.0)
+    >>> round(r.pressure_drop)
+    15838
     """
-    inlet = _check_state("pipe inlet", inlet)
+    inlet = checks.state(inlet, "pipe inlet")
     _check_liquid("pipe inlet", inlet)
-    m = _positive(mass_flow, "mass_flow", "pipe mass flow", "kg/s")
-    D1 = _positive(diameter, "length", "pipe diameter", "m")
-    D2 = D1 if outlet_diameter is None else _positive(outlet_diameter, "length",
-                                                         "pipe outlet diameter", "m")
-    L = _not_negative(length, "length", "pipe length", "m")
-    dz = to_si(elevation_change, "length", "elevation change")
-    eps = to_si(roughness, "length", "pipe roughness")
-    if not 0.0 <= eps < D1 * 0.05:
-        raise InputError(f"pipe roughness {eps:g} m must lie in [0, {0.05 * D1:g}) m "
-                         "(relative roughness up to 0.05)")
-    K = _not_negative(minor_loss_coefficient, "dimensionless", "minor loss coefficient")
-    W = _not_negative(pump_power, "power", "pump power", "W")
-    Q = to_si(heat_loss, "power", "pipe heat loss")
+    m = checks.positive(mass_flow, "mass_flow", "pipe mass flow")
+    D1 = checks.positive(diameter, "length", "pipe diameter")
+    D2 = D1 if outlet_diameter is None else checks.positive(outlet_diameter, "length",
+                                                             "pipe outlet diameter")
+    L = checks.not_negative(length, "length", "pipe length")
+    dz = checks.number(elevation_change, "length", "elevation change")
+    K = checks.not_negative(minor_loss_coefficient, "dimensionless", "minor loss coefficient")
+    W = checks.not_negative(pump_power, "power", "pump power")
+    Q = checks.number(heat_loss, "heat_flow", "pipe heat loss")
+    f_given = checks.optional(friction_factor, "dimensionless", "friction factor", low=0.0,
+                              high=1.0, low_open=True, high_open=True)
     rho = inlet.rho
-    V1 = m / (rho * math.pi * D1 ** 2 / 4)
-    V2 = m / (rho * math.pi * D2 ** 2 / 4)
+    V1 = checks.passage_velocity(m, rho, D1, "pipe")
+    V2 = checks.passage_velocity(m, rho, D2, "pipe outlet")
+    eps = checks.not_negative(roughness, "length", "pipe roughness")
+    if not eps <= MAX_RELATIVE_ROUGHNESS * D1:
+        raise InputError(f"pipe roughness {eps:g} m is above {MAX_RELATIVE_ROUGHNESS:g} of the "
+                         f"pipe diameter {D1:g} m (relative roughness {eps / D1:.3g}; at most "
+                         f"{MAX_RELATIVE_ROUGHNESS:g} allowed)")
     Re = math.nan
-    if friction_factor is not None:
-        f = to_si(friction_factor, "dimensionless", "friction factor")
-        if not 0 < f < 1:
-            raise InputError(f"friction factor {f:g} must lie in (0, 1)")
+    if f_given is not None:
+        f = f_given
     elif L > 0:
-        if viscosity is None:
-            raise SpecificationError(
-                "the pipe friction needs the liquid's dynamic viscosity [Pa s] (viscosity=...) "
-                "or a Darcy friction factor (friction_factor=...)")
-        mu = _viscosity(viscosity)
-        if not 0 < mu < 1e3:
-            raise InputError(f"viscosity {mu:g} Pa s must lie in (0, 1000) Pa s")
+        mu = _liquid_viscosity(inlet, viscosity)
         Re = rho * V1 * D1 / mu
         f = darcy_friction_factor(Re, eps / D1)
     else:
@@ -258,15 +332,12 @@ def pipe_segment(inlet: State, mass_flow, diameter, *, length=0.0, outlet_diamet
     dke = (V2 ** 2 - V1 ** 2) / 2
     g_dz = STANDARD_GRAVITY * dz
     P2 = inlet.P + rho * (w - dke - g_dz - e_f)
-    if not P2 > 0:
-        raise SpecificationError(
-            f"the pipe outlet pressure comes out at {P2 / 1e5:.6g} bar (absolute), not positive: "
-            "the liquid cannot rise that far or lose that much head; raise the inlet pressure")
     h2 = inlet.h + w - Q / m - dke - g_dz
-    outlet = inlet.fluid.state_Ph(P2, h2, T_guess=inlet.T)
+    outlet, Pv, cautions = _outlet(inlet, P2, h2, rho, w)
     return PipeResult(inlet=inlet, outlet=outlet, mass_flow=m, density=rho, velocity_in=V1,
                       velocity_out=V2, elevation_change=dz, reynolds_number=Re,
-                      friction_factor=f, friction_loss=e_f, pump_power=W, heat_loss=Q)
+                      friction_factor=f, friction_loss=e_f, pump_power=W, heat_loss=Q,
+                      vapour_pressure=Pv, cautions=cautions)
 
 
 @dataclass(frozen=True, eq=False)
@@ -283,12 +354,16 @@ class SuctionHeadResult:
         Saturation pressure at the suction temperature [Pa].
     npsh_available : float
         (P - P_vapour) / (rho g) + V^2 / (2 g) [m].
+    cautions : tuple of str
+        Plain-language cautions (none yet: the margin over the pump's NPSH required is the
+        user's judgement).
     """
 
     suction: State
     velocity: float
     vapour_pressure: float
     npsh_available: float
+    cautions: tuple[str, ...] = ()
 
     @property
     def velocity_head(self) -> float:
@@ -296,13 +371,14 @@ class SuctionHeadResult:
         return self.velocity ** 2 / (2 * STANDARD_GRAVITY)
 
     def to_dict(self) -> dict:
-        """Flat dict of the result numbers (SI units, keys end with their unit)."""
-        return {"device": "pump suction", "fluid": self.suction.fluid.name,
-                "suction_pressure_Pa": self.suction.P, "suction_temperature_K": self.suction.T,
-                "density_kg_per_m3": self.suction.rho, "velocity_m_per_s": self.velocity,
-                "vapour_pressure_Pa": self.vapour_pressure,
-                "velocity_head_m": self.velocity_head,
-                "npsh_available_m": self.npsh_available}
+        """Flat dict of the result numbers, SI units, keys from
+        :data:`workbench.fields.FIELDS` (pressure, temperature, density at the suction)."""
+        return checks.result_dict([
+            ("device", "pump suction"), ("fluid", self.suction.fluid.name),
+            *checks.state_items("", self.suction, ("pressure", "temperature", "density")),
+            ("velocity", self.velocity), ("vapour_pressure", self.vapour_pressure),
+            ("velocity_head", self.velocity_head), ("npsh_available", self.npsh_available),
+        ])
 
 
 def npsh_available(suction: State, *, velocity=0.0, mass_flow=None, diameter=None
@@ -327,22 +403,30 @@ def npsh_available(suction: State, *, velocity=0.0, mass_flow=None, diameter=Non
     References
     ----------
     ANSI/HI 9.6.1 (NPSHa definition); vapour pressure from Fluid.saturation_pressure.
+
+    Examples
+    --------
+    >>> import workbench as wb
+    >>> water = wb.Fluid("Water")
+    >>> round(npsh_available(water.state(P=1.2e5, T=298.15), velocity=2.0).npsh_available, 2)
+    12.15
     """
-    suction = _check_state("pump suction state", suction)
+    suction = checks.state(suction, "pump suction state")
     _check_liquid("pump suction", suction)
-    V = to_si(velocity, "velocity", "suction velocity")
+    V = checks.not_negative(velocity, "velocity", "suction velocity")
     if (mass_flow is None) != (diameter is None):
         raise SpecificationError("give the suction mass flow and diameter together")
     if mass_flow is not None:
         if V != 0:
             raise SpecificationError("give the suction velocity or the mass flow and diameter, "
                                      "not both")
-        m = _positive(mass_flow, "mass_flow", "suction mass flow", "kg/s")
-        D = _positive(diameter, "length", "suction diameter", "m")
-        V = m / (suction.rho * math.pi * D ** 2 / 4)
-    if V < 0:
-        raise InputError(f"suction velocity {V:g} m/s must not be negative")
+        m = checks.positive(mass_flow, "mass_flow", "suction mass flow")
+        D = checks.positive(diameter, "length", "suction diameter")
+        V = checks.passage_velocity(m, suction.rho, D, "suction")
     fluid = suction.fluid
+    if fluid.is_mixture:
+        raise InputError(f"suction fluid {fluid.name} is a mixture: NPSH available needs the "
+                         "vapour pressure of a pure fluid")
     if suction.T >= fluid.T_critical:
         raise InputError(f"suction temperature {suction.T:.6g} K is at or above the critical "
                          f"temperature {fluid.T_critical:.6g} K: there is no vapour pressure")

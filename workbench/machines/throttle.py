@@ -18,45 +18,18 @@ Thermodynamic Properties of Water and Steam (used in the tests).
 
 from __future__ import annotations
 
-import math
 from dataclasses import dataclass
 
-from ..errors import InputError
-from ..fluids import State
-from ..units import to_si
+from ..properties import State
+from . import checks
+
+# Kept for callers that import these from here (workbench.trains); use .checks instead.
+_quality = checks.quality
 
 
 def _check_state(name: str, state) -> State:
-    if not isinstance(state, State):
-        raise InputError(f"{name} must be a State from Fluid.state(...), not {type(state).__name__}")
-    return state
-
-
-def _positive(value, kind: str, name: str, unit: str) -> float:
-    number = to_si(value, kind, name)
-    if not number > 0:
-        raise InputError(f"{name} {number:g} {unit} must be positive")
-    return number
-
-
-def _not_negative(value, kind: str, name: str, unit: str = "") -> float:
-    number = to_si(value, kind, name)
-    if number < 0:
-        shown = f"{number:g} {unit}" if unit else f"{number:g}"
-        raise InputError(f"{name} {shown} must not be negative")
-    return number
-
-
-def _check_below_inlet(device: str, P_out: float, inlet: State, reason: str) -> None:
-    """Refuse an outlet pressure [Pa] not below the inlet's; ``reason`` ends the message."""
-    if not P_out < inlet.P:
-        raise InputError(
-            f"{device} outlet pressure {P_out / 1e5:.6g} bar is not below the inlet pressure "
-            f"{inlet.P / 1e5:.6g} bar: {reason}")
-
-
-def _quality(state: State) -> float:
-    return math.nan if state.x is None else state.x
+    """Old argument order of :func:`checks.state` (name first), for workbench.trains."""
+    return checks.state(state, name)
 
 
 @dataclass(frozen=True, eq=False)
@@ -76,9 +49,12 @@ class ThrottleResult:
     mean_joule_thomson_coefficient : float
         (T1 - T2) / (P1 - P2) [K/Pa], the mean Joule-Thomson coefficient over the valve.
     outlet_quality : float
-        Vapour quality at the outlet [-], NaN when the outlet is single-phase.
+        Vapour quality at the outlet [-] (``outlet.quality``), NaN when not defined (the
+        outlet is single-phase).
     flashes : bool
         True when the inlet is liquid (or saturated liquid) and the outlet is two-phase.
+    cautions : tuple of str
+        Plain-language cautions: a flashing or wet outlet, a fluid that warms on throttling.
     """
 
     inlet: State
@@ -89,29 +65,41 @@ class ThrottleResult:
     mean_joule_thomson_coefficient: float
     outlet_quality: float
     flashes: bool
+    cautions: tuple[str, ...] = ()
+
+    @property
+    def entropy_generation(self) -> float:
+        """m (s2 - s1) [W/K], positive for a real valve."""
+        return self.mass_flow * (self.outlet.s - self.inlet.s)
 
     def to_dict(self) -> dict:
-        """Flat dict of the result numbers (SI units, keys end with their unit)."""
-        return {
-            "device": "throttle valve",
-            "fluid": self.inlet.fluid.name,
-            "inlet_pressure_Pa": self.inlet.P,
-            "inlet_temperature_K": self.inlet.T,
-            "inlet_quality": _quality(self.inlet),
-            "outlet_pressure_Pa": self.outlet.P,
-            "outlet_temperature_K": self.outlet.T,
-            "outlet_quality": self.outlet_quality,
-            "enthalpy_J_per_kg": self.outlet.h,
-            "mass_flow_kg_per_s": self.mass_flow,
-            "pressure_drop_Pa": self.pressure_drop,
-            "temperature_change_K": self.temperature_change,
-            "mean_joule_thomson_coefficient_K_per_Pa": self.mean_joule_thomson_coefficient,
-            "entropy_generation_W_per_K": self.mass_flow * (self.outlet.s - self.inlet.s),
-            "flashes": self.flashes,
-        }
+        """Flat dict of the result numbers, SI units, keys from
+        :data:`workbench.fields.FIELDS`."""
+        return checks.result_dict([
+            ("device", "throttle valve"), ("fluid", self.inlet.fluid.name),
+            *checks.state_items("inlet", self.inlet, ("pressure", "temperature", "quality")),
+            *checks.state_items("outlet", self.outlet, ("pressure", "temperature", "quality")),
+            ("enthalpy", self.outlet.h), ("mass_flow", self.mass_flow),
+            ("pressure_drop", self.pressure_drop),
+            ("temperature_change", self.temperature_change),
+            ("mean_joule_thomson_coefficient", self.mean_joule_thomson_coefficient),
+            ("entropy_generation", self.entropy_generation), ("flashes", self.flashes),
+        ])
 
 
-def throttle(inlet: State, P_out, *, mass_flow=1.0) -> ThrottleResult:
+def _cautions(inlet: State, outlet: State, flashes: bool) -> tuple[str, ...]:
+    notes = []
+    if outlet.two_phase:
+        what = "the liquid flashes across the valve" if flashes else "the outlet is wet"
+        notes.append(f"{what} (outlet quality {outlet.quality:.3f}): size the valve and the "
+                     "downstream line for two-phase flow")
+    elif outlet.T > inlet.T and not inlet.two_phase:
+        notes.append(f"the fluid warms by {outlet.T - inlet.T:.3g} K across the valve: it is "
+                     "above its Joule-Thomson inversion temperature")
+    return tuple(notes)
+
+
+def throttle(inlet: State, mass_flow, *, P_out) -> ThrottleResult:
     """Isenthalpic expansion through a throttle valve.
 
     Assumptions: steady flow, adiabatic (no heat lost), no shaft work, kinetic and potential
@@ -121,10 +109,11 @@ def throttle(inlet: State, P_out, *, mass_flow=1.0) -> ThrottleResult:
     ----------
     inlet : State
         Inlet state.
-    P_out : float or Quantity
-        Outlet pressure [Pa], below the inlet pressure.
     mass_flow : float or Quantity
-        Mass flow [kg/s], positive.
+        Mass flow [kg/s], positive (required; the second argument of every single-inlet
+        device).
+    P_out : float or Quantity
+        Outlet pressure [Pa], below the inlet pressure (keyword-only).
 
     Returns
     -------
@@ -133,24 +122,34 @@ def throttle(inlet: State, P_out, *, mass_flow=1.0) -> ThrottleResult:
     Raises
     ------
     InputError
-        Outlet pressure not below the inlet pressure, non-positive mass flow.
+        Outlet pressure not below the inlet pressure, non-positive mass flow, a value that is
+        not a number or of the wrong unit.
 
     References
     ----------
     The steady-flow energy equation with w = q = 0 (common practice); see the module notes.
+
+    Examples
+    --------
+    >>> import workbench as wb
+    >>> air = wb.Fluid("Air")
+    >>> r = throttle(air.state(P=10e5, T=300.0), 2.0, P_out=1e5)
+    >>> round(r.temperature_change, 1)
+    -2.0
     """
-    inlet = _check_state("throttle inlet", inlet)
-    P2 = _positive(P_out, "pressure", "throttle outlet pressure", "Pa")
-    m = _positive(mass_flow, "mass_flow", "throttle mass flow", "kg/s")
-    _check_below_inlet("throttle", P2, inlet, "a throttle valve lowers pressure")
+    inlet = checks.state(inlet, "throttle inlet")
+    m = checks.positive(mass_flow, "mass_flow", "throttle mass flow")
+    P2 = checks.positive(P_out, "pressure", "throttle outlet pressure")
+    checks.below_inlet("throttle", P2, inlet, "a throttle valve lowers pressure")
     outlet = inlet.fluid.state_Ph(P2, inlet.h, T_guess=inlet.T)
     dT = outlet.T - inlet.T
-    liquid_in = inlet.phase == "liquid" or (inlet.x is not None and inlet.x <= 1e-9)
+    liquid_in = inlet.phase == "liquid" or (inlet.two_phase and inlet.quality <= 1e-9)
+    flashes = bool(liquid_in and outlet.two_phase)
     return ThrottleResult(
         inlet=inlet, outlet=outlet, mass_flow=m, pressure_drop=inlet.P - P2,
         temperature_change=dT, mean_joule_thomson_coefficient=-dT / (inlet.P - P2),
-        outlet_quality=_quality(outlet), flashes=bool(liquid_in and outlet.x is not None),
-    )
+        outlet_quality=outlet.quality, flashes=flashes,
+        cautions=_cautions(inlet, outlet, flashes))
 
 
 __all__ = ["ThrottleResult", "throttle"]

@@ -1,4 +1,4 @@
-"""Steady-flow energy balance of compressors, turbines, pumps and fans.
+"""Steady-flow energy balance of compressors, turbines, pumps and fans: the single-point API.
 
 One inlet, one outlet, steady state.  Per unit mass, with power absorbed positive::
 
@@ -26,6 +26,12 @@ the efficiency):
 * total-to-static (turbines): ``(h01 - h02) / (h01 - h2s)``, the exhaust kinetic energy
   counted as a loss.
 
+The equations and checks are those of the balance kernel,
+:func:`workbench.machines.balance.steady_flow`, which the field-test batch uses too; this
+module converts the arguments at the input boundary, predicts the outlet where it is not
+measured, calls the kernel and raises the project's error for a refused entry.  The result is
+a :class:`~workbench.machines.result.MachineResult`.
+
 References
 ----------
 ASME PTC 10-1997, Performance Test Code on Compressors and Exhausters.
@@ -36,289 +42,48 @@ Butterworth-Heinemann 2014, chapter 2 (efficiency definitions).
 
 from __future__ import annotations
 
-import math
-from dataclasses import dataclass, field
-from functools import cached_property
+from typing import NamedTuple
 
 from ..errors import InputError, ReadingsError, SpecificationError
-from ..fluids import State
-from ..polytropic import polytropic_efficiency as _path_efficiency
-from ..polytropic import polytropic_outlet, schultz
-from ..units import optional_si, to_si
+from ..polytropic import polytropic_outlet
+from ..properties import State
+from ..units import choice, fraction, not_negative, optional_si, positive, to_si
+from . import balance as _balance
+from .balance import BASES, KINDS, RAISES_PRESSURE, STANDARD_GRAVITY
+from .flows import velocity_from_diameter
+from .result import MachineResult
 
-#: Standard acceleration of gravity [m/s^2] (CGPM 1901).
-STANDARD_GRAVITY = 9.80665
-
-_KINDS = {
-    "compressor": True,  # True: raises pressure
-    "pump": True,
-    "fan": True,
-    "turbine": False,
-}
+# Defaults of the public functions: known valid, so the boundary is skipped when the caller
+# leaves them (the most common call gives only states, a pressure and one efficiency).
+_ZERO = 0.0
+_ONE = 1.0
+_STATIC = "static"
 
 
-@dataclass(frozen=True, eq=False)
-class MachineResult:
-    """Result of a machine energy balance.  All numbers in SI units.
+def _given(value, default, convert, *args):
+    """``convert(value, *args)`` at the input boundary, or the default the caller left."""
+    return value if value is default else convert(value, *args)
 
-    Attributes
-    ----------
-    kind : str
-        ``"compressor"``, ``"turbine"``, ``"pump"`` or ``"fan"``.
-    basis : str
-        ``"static"`` or ``"total"``: the basis of ``isentropic_efficiency`` and
-        ``polytropic_efficiency``.
-    inlet, outlet : State
-        Static inlet and outlet states.
-    isentropic_outlet : State
-        Outlet pressure at the inlet entropy (static).
-    inlet_stagnation, outlet_stagnation : State
-        Stagnation (total) states ``h0 = h + V^2/2`` at the static entropy.
-    mass_flow : float
-        Mass flow [kg/s].
-    velocity_in, velocity_out : float
-        Flow velocities [m/s].
-    elevation_change : float
-        Outlet elevation above the inlet [m].
-    heat_loss : float
-        Heat lost to the surroundings [W] (positive out of the machine).
-    mechanical_efficiency : float
-        Shaft power over fluid power (turbine) or fluid over shaft power (driven machine) [-].
-    specific_work : float
-        Fluid work per unit mass, a positive magnitude [J/kg].
-    power : float
-        Fluid power, a positive magnitude [W].
-    shaft_power : float
-        Power at the coupling after mechanical losses [W].
-    enthalpy_change : float
-        h2 - h1 [J/kg].
-    kinetic_energy_change : float
-        (V2^2 - V1^2) / 2 [J/kg].
-    potential_energy_change : float
-        g (z2 - z1) [J/kg].
-    specific_heat_loss : float
-        Heat loss per unit mass [J/kg].
-    isentropic_efficiency_static : float
-        Static-to-static isentropic efficiency [-].
-    isentropic_efficiency_total : float
-        Total-to-total isentropic efficiency [-].
-    isentropic_efficiency_total_to_static : float
-        Total-to-static isentropic efficiency [-] (turbines; NaN for driven machines).
-    isentropic_head : float
-        |h2s - h1| on the chosen basis [J/kg].
-    rated_from : str
-        What fixed the outlet: ``"outlet"`` (a measured outlet state), ``"efficiency"`` or
-        ``"power"``.
-    """
+
+class _Inputs(NamedTuple):
+    """The arguments of :func:`energy_balance` after the input boundary (SI floats)."""
 
     kind: str
     basis: str
     inlet: State
-    outlet: State
-    isentropic_outlet: State
-    inlet_stagnation: State
-    outlet_stagnation: State
+    outlet: State | None
+    P_out: float
+    isentropic_efficiency: float | None
+    polytropic_efficiency: float | None
+    power: float | None
     mass_flow: float
     velocity_in: float
     velocity_out: float
+    diameter_in: float | None
+    diameter_out: float | None
     elevation_change: float
     heat_loss: float
     mechanical_efficiency: float
-    specific_work: float
-    power: float
-    shaft_power: float
-    enthalpy_change: float
-    kinetic_energy_change: float
-    potential_energy_change: float
-    specific_heat_loss: float
-    isentropic_efficiency_static: float
-    isentropic_efficiency_total: float
-    isentropic_efficiency_total_to_static: float
-    isentropic_head: float
-    rated_from: str = "outlet"
-    _given_polytropic: tuple = field(default=(), repr=False)
-
-    # ---------------------------------------------------------------- derived
-    @property
-    def isentropic_efficiency(self) -> float:
-        """Isentropic efficiency on the result's basis [-]."""
-        if self.basis == "total":
-            return self.isentropic_efficiency_total
-        return self.isentropic_efficiency_static
-
-    @property
-    def pressure_ratio(self) -> float:
-        """Outlet over inlet static pressure [-]."""
-        return self.outlet.P / self.inlet.P
-
-    @property
-    def inlet_volume_flow(self) -> float:
-        """Actual volume flow at the inlet [m^3/s]."""
-        return self.mass_flow / self.inlet.rho
-
-    @property
-    def outlet_volume_flow(self) -> float:
-        """Actual volume flow at the outlet [m^3/s]."""
-        return self.mass_flow / self.outlet.rho
-
-    @property
-    def kinetic_share(self) -> float:
-        """Share of the specific work that goes into (or comes from) kinetic energy [-]."""
-        return abs(self.kinetic_energy_change) / self.specific_work if self.specific_work else math.nan
-
-    @property
-    def outlet_temperature(self) -> float:
-        """Static outlet temperature [K]."""
-        return self.outlet.T
-
-    def _ends(self):
-        if self.basis == "total":
-            return self.inlet_stagnation, self.outlet_stagnation
-        return self.inlet, self.outlet
-
-    @cached_property
-    def _schultz(self):
-        a, b = self._ends()
-        iso = a.fluid.state_Ps(b.P, a.s, T_guess=self.isentropic_outlet.T)
-        return schultz(a, b, iso)
-
-    @cached_property
-    def _path(self):
-        if self._given_polytropic:
-            return self._given_polytropic
-        a, b = self._ends()
-        eta, head, _ = _path_efficiency(a, b, guess=self._schultz.polytropic_efficiency)
-        return eta, head
-
-    @property
-    def polytropic_efficiency(self) -> float:
-        """Polytropic efficiency by direct integration of the polytropic path [-]."""
-        return self._path[0]
-
-    @property
-    def polytropic_head(self) -> float:
-        """Polytropic head by direct path integration, a positive magnitude [J/kg]."""
-        return self._path[1]
-
-    @property
-    def polytropic_efficiency_schultz(self) -> float:
-        """Polytropic efficiency by Schultz's method [-]."""
-        return self._schultz.polytropic_efficiency
-
-    @property
-    def polytropic_head_schultz(self) -> float:
-        """Polytropic head by Schultz's method [J/kg]."""
-        return self._schultz.polytropic_head
-
-    @property
-    def schultz_factor(self) -> float:
-        """Schultz polytropic head correction factor f [-]."""
-        return self._schultz.schultz_factor
-
-    @property
-    def polytropic_exponent(self) -> float:
-        """Polytropic volume exponent n = ln(P2/P1)/ln(v1/v2) [-]."""
-        return self._schultz.polytropic_exponent
-
-    @property
-    def isentropic_exponent(self) -> float:
-        """Isentropic volume exponent n_s = ln(P2/P1)/ln(v1/v2s) [-]."""
-        return self._schultz.isentropic_exponent
-
-    @property
-    def outlet_temperature_sensitivity(self) -> float:
-        """Change of the isentropic efficiency per kelvin of outlet temperature [1/K].
-
-        For a rating from a measured outlet temperature: d(eta)/dT2 = -eta cp2 / (h2 - h1)
-        (compression; the magnitude is the same for an expansion).  NaN when the outlet is
-        two-phase or the outlet was not measured.
-        """
-        if self.rated_from != "outlet" or self.outlet.x is not None:
-            return math.nan
-        dh = self.outlet.h - self.inlet.h
-        return abs(self.isentropic_efficiency * self.outlet.cp / dh) if dh else math.nan
-
-    @property
-    def cautions(self) -> tuple[str, ...]:
-        """Plain-language cautions about how far the numbers can be trusted.
-
-        * A state in the two-phase region: Schultz's method and ASME PTC 10 assume a
-          single-phase gas; the path-integrated polytropic values are the ones to use.
-        * A rating from a measured outlet temperature where 1 K moves the efficiency by more
-          than two points (small temperature rise: low-ratio compressors, fans, pumps; common
-          practice is to rate such machines from measured power or with calibrated,
-          well-immersed thermometers).
-        """
-        notes = []
-        wet = [(name, st) for name, st in (("inlet", self.inlet), ("outlet", self.outlet),
-                                           ("isentropic outlet", self.isentropic_outlet))
-               if st.x is not None]
-        if wet:
-            where = ", ".join(f"{name} quality {st.x:.3f}" for name, st in wet)
-            notes.append(f"the process enters the two-phase region ({where}): Schultz's method "
-                         "assumes a single-phase gas; use the path-integrated polytropic values")
-        sensitivity = self.outlet_temperature_sensitivity
-        if math.isfinite(sensitivity) and sensitivity > 0.02:
-            rise = abs(self.outlet.T - self.inlet.T)
-            notes.append(f"the outlet temperature changes by only {rise:.3g} K: an error of 1 K "
-                         f"in it moves the efficiency by {100 * sensitivity:.2g} points; rate "
-                         "from measured power or use calibrated, well-immersed thermometers")
-        return tuple(notes)
-
-    # ---------------------------------------------------------------- export
-    def to_dict(self) -> dict:
-        """Flat dict of every result number (SI units, keys end with their unit)."""
-        d = {"kind": self.kind, "basis": self.basis, "fluid": self.inlet.fluid.name}
-        for prefix, st in (("inlet", self.inlet), ("outlet", self.outlet),
-                           ("isentropic_outlet", self.isentropic_outlet)):
-            d[f"{prefix}_pressure_Pa"] = st.P
-            d[f"{prefix}_temperature_K"] = st.T
-            d[f"{prefix}_enthalpy_J_per_kg"] = st.h
-            d[f"{prefix}_entropy_J_per_kgK"] = st.s
-            d[f"{prefix}_density_kg_per_m3"] = st.rho
-            d[f"{prefix}_quality"] = math.nan if st.x is None else st.x
-        d.update({
-            "mass_flow_kg_per_s": self.mass_flow,
-            "velocity_in_m_per_s": self.velocity_in,
-            "velocity_out_m_per_s": self.velocity_out,
-            "specific_work_J_per_kg": self.specific_work,
-            "power_W": self.power,
-            "shaft_power_W": self.shaft_power,
-            "heat_loss_W": self.heat_loss,
-            "enthalpy_change_J_per_kg": self.enthalpy_change,
-            "kinetic_energy_change_J_per_kg": self.kinetic_energy_change,
-            "potential_energy_change_J_per_kg": self.potential_energy_change,
-            "pressure_ratio": self.pressure_ratio,
-            "isentropic_efficiency": self.isentropic_efficiency,
-            "isentropic_efficiency_static": self.isentropic_efficiency_static,
-            "isentropic_efficiency_total": self.isentropic_efficiency_total,
-            "isentropic_efficiency_total_to_static": self.isentropic_efficiency_total_to_static,
-            "polytropic_efficiency": self.polytropic_efficiency,
-            "polytropic_efficiency_schultz": self.polytropic_efficiency_schultz,
-            "schultz_factor": self.schultz_factor,
-            "polytropic_exponent": self.polytropic_exponent,
-            "isentropic_head_J_per_kg": self.isentropic_head,
-            "polytropic_head_J_per_kg": self.polytropic_head,
-            "polytropic_head_schultz_J_per_kg": self.polytropic_head_schultz,
-            "inlet_volume_flow_m3_per_s": self.inlet_volume_flow,
-            "outlet_volume_flow_m3_per_s": self.outlet_volume_flow,
-            "kinetic_share": self.kinetic_share,
-        })
-        return d
-
-    def to_series(self):
-        """The result as a pandas Series (one row of a results table)."""
-        import pandas as pd
-
-        return pd.Series(self.to_dict())
-
-
-def _velocity(name, velocity, diameter, mass_flow, rho):
-    """Velocity [m/s] given directly or from mass flow and a flow diameter (continuity)."""
-    if diameter is None:
-        return velocity
-    # V = m / (rho A), A = pi D^2 / 4
-    return mass_flow / (rho * math.pi * diameter ** 2 / 4.0)
 
 
 def _check_state(name, state):
@@ -327,18 +92,68 @@ def _check_state(name, state):
     return state
 
 
-def _fraction(name, value):
-    value = to_si(value, "dimensionless", name)
-    if not 0.0 < value <= 1.0:
-        raise InputError(f"{name} {value:g} is outside the allowed range (0, 1]")
-    return value
+def _convert(kind, inlet, outlet, P_out, isentropic_efficiency, polytropic_efficiency, power,
+             mass_flow, velocity_in, velocity_out, diameter_in, diameter_out, elevation_change,
+             heat_loss, mechanical_efficiency, basis) -> _Inputs:
+    """Every argument through the input boundary; which one fixes the outlet, and P_out."""
+    kind = choice(kind, KINDS, "machine kind")
+    basis = _given(basis, _STATIC, choice, BASES, "efficiency basis")
+    inlet = _check_state("inlet", inlet)
+    m = _given(mass_flow, _ONE, positive, "mass_flow", "mass flow")
+    v1 = _given(velocity_in, _ZERO, not_negative, "velocity", "inlet velocity")
+    v2 = _given(velocity_out, _ZERO, not_negative, "velocity", "outlet velocity")
+    d1 = None if diameter_in is None else positive(diameter_in, "length", "inlet flow diameter")
+    d2 = None if diameter_out is None else positive(diameter_out, "length",
+                                                    "outlet flow diameter")
+    for name, vel, dia in (("inlet", v1, d1), ("outlet", v2, d2)):
+        if dia is not None and vel != 0:
+            raise SpecificationError(
+                f"give either the {name} velocity or the {name} flow diameter, not both")
+    dz = _given(elevation_change, _ZERO, to_si, "length", "elevation change")
+    q_rate = _given(heat_loss, _ZERO, to_si, "power", "heat loss")
+    eta_m = _given(mechanical_efficiency, _ONE, fraction, "mechanical efficiency")
+    P2 = optional_si(P_out, "pressure", "outlet pressure")
+    eta_s = None if isentropic_efficiency is None else fraction(
+        isentropic_efficiency, "isentropic efficiency")
+    eta_p = None if polytropic_efficiency is None else fraction(
+        polytropic_efficiency, "polytropic efficiency")
+    # a measured power of zero rates nothing: refused by name like a negative one
+    shaft = None if power is None else positive(power, "power", "power")
+    modes = [name for name, value in (("a measured outlet state", outlet),
+                                      ("an isentropic efficiency", eta_s),
+                                      ("a polytropic efficiency", eta_p),
+                                      ("a measured power", shaft)) if value is not None]
+    if len(modes) != 1:
+        raise SpecificationError(
+            "the outlet must be fixed by exactly one of: a measured outlet state, an isentropic "
+            "efficiency, a polytropic efficiency or a measured power (the last three with the "
+            f"outlet pressure); got {' and '.join(modes) if modes else 'none of them'}")
+    if outlet is not None:
+        outlet = _check_state("outlet", outlet)
+        if outlet.fluid != inlet.fluid:
+            raise InputError(f"inlet ({inlet.fluid.name}) and outlet ({outlet.fluid.name}) are "
+                             "states of different fluids")
+        if P2 is not None and abs(P2 - outlet.P) > 1e-9 * outlet.P:
+            raise SpecificationError(
+                f"outlet pressure {P2 / 1e5:.6g} bar disagrees with the measured outlet state "
+                f"at {outlet.P / 1e5:.6g} bar: give one of them")
+        P2 = outlet.P
+    elif P2 is None:
+        raise SpecificationError(f"outlet pressure is needed with {modes[0]}")
+    return _Inputs(kind, basis, inlet, outlet, P2, eta_s, eta_p, shaft, m, v1, v2, d1, d2, dz,
+                   q_rate, eta_m)
+
+
+def _velocity(velocity, diameter, mass_flow, density):
+    """Velocity [m/s] given directly or from mass flow and a flow diameter (continuity)."""
+    return velocity if diameter is None else velocity_from_diameter(mass_flow, density, diameter)
 
 
 def energy_balance(kind: str, inlet: State, outlet: State | None = None, *, P_out=None,
                    isentropic_efficiency=None, polytropic_efficiency=None, power=None,
-                   mass_flow=1.0, velocity_in=0.0, velocity_out=0.0, diameter_in=None,
-                   diameter_out=None, elevation_change=0.0, heat_loss=0.0,
-                   mechanical_efficiency=1.0, basis: str = "static") -> MachineResult:
+                   mass_flow=_ONE, velocity_in=_ZERO, velocity_out=_ZERO, diameter_in=None,
+                   diameter_out=None, elevation_change=_ZERO, heat_loss=_ZERO,
+                   mechanical_efficiency=_ONE, basis: str = _STATIC) -> MachineResult:
     """Steady-flow energy balance of one machine; see the module docstring.
 
     Parameters
@@ -354,7 +169,7 @@ def energy_balance(kind: str, inlet: State, outlet: State | None = None, *, P_ou
     isentropic_efficiency, polytropic_efficiency : float, optional
         Efficiency [-] in (0, 1] on ``basis``, to predict the outlet.
     power : float or Quantity, optional
-        Measured shaft power [W] (positive magnitude), to find the outlet from the balance.
+        Measured shaft power [W], a positive magnitude, to find the outlet from the balance.
     mass_flow : float or Quantity
         Mass flow [kg/s], positive.
     velocity_in, velocity_out : float or Quantity
@@ -373,184 +188,125 @@ def energy_balance(kind: str, inlet: State, outlet: State | None = None, *, P_ou
     Returns
     -------
     MachineResult
+
+    Raises
+    ------
+    InputError, SpecificationError, ReadingsError, PropertyError
+        With a message naming the input, its value and the allowed range.
+
+    References
+    ----------
+    ASME PTC 10-1997; ASME PTC 6-2004; Dixon and Hall (2014), chapter 2.
+
+    Examples
+    --------
+    >>> import workbench as wb
+    >>> air = wb.Fluid("Air")
+    >>> r = energy_balance("compressor", air.state(P=1e5, T=300.0), P_out=2e5,
+    ...                    isentropic_efficiency=0.8, mass_flow=2.0)
+    >>> round(r.outlet.T, 1), round(r.shaft_power / 1e3, 1)
+    (381.9, 165.0)
     """
-    if kind not in _KINDS:
-        raise InputError(f"machine kind {kind!r} is not one of {', '.join(_KINDS)}")
-    if basis not in ("static", "total"):
-        raise InputError(f"efficiency basis must be 'static' or 'total', not {basis!r}")
-    raises = _KINDS[kind]
-    inlet = _check_state("inlet", inlet)
-    fluid = inlet.fluid
-    m = to_si(mass_flow, "mass_flow", "mass flow")
-    if m <= 0:
-        raise InputError(f"mass flow {m:g} kg/s must be positive")
-    v1 = to_si(velocity_in, "velocity", "inlet velocity")
-    v2 = to_si(velocity_out, "velocity", "outlet velocity")
-    d1 = optional_si(diameter_in, "length", "inlet flow diameter")
-    d2 = optional_si(diameter_out, "length", "outlet flow diameter")
-    for name, vel, dia in (("inlet", v1, d1), ("outlet", v2, d2)):
-        if vel < 0:
-            raise InputError(f"{name} velocity {vel:g} m/s must not be negative (give the speed)")
-        if dia is not None:
-            if dia <= 0:
-                raise InputError(f"{name} flow diameter {dia:g} m must be positive")
-            if vel != 0:
-                raise SpecificationError(
-                    f"give either the {name} velocity or the {name} flow diameter, not both")
-    dz = to_si(elevation_change, "length", "elevation change")
-    q_rate = to_si(heat_loss, "power", "heat loss")
-    eta_m = _fraction("mechanical efficiency", mechanical_efficiency)
-    P2 = optional_si(P_out, "pressure", "outlet pressure")
-    eta_s = None if isentropic_efficiency is None else _fraction(
-        "isentropic efficiency", isentropic_efficiency)
-    eta_p = None if polytropic_efficiency is None else _fraction(
-        "polytropic efficiency", polytropic_efficiency)
-    shaft = optional_si(power, "power", "power")
-    if shaft is not None and shaft < 0:
-        raise InputError(f"power {shaft:g} W must be given as a positive magnitude")
-
-    modes = [name for name, value in (("a measured outlet state", outlet),
-                                      ("an isentropic efficiency", eta_s),
-                                      ("a polytropic efficiency", eta_p),
-                                      ("a measured power", shaft)) if value is not None]
-    if len(modes) != 1:
-        raise SpecificationError(
-            "the outlet must be fixed by exactly one of: a measured outlet state, an isentropic "
-            "efficiency, a polytropic efficiency or a measured power (the last three with the "
-            f"outlet pressure); got {' and '.join(modes) if modes else 'none of them'}")
-    if outlet is not None:
-        outlet = _check_state("outlet", outlet)
-        if outlet.fluid != fluid:
-            raise InputError(f"inlet ({fluid.name}) and outlet ({outlet.fluid.name}) are "
-                             "states of different fluids")
-        if P2 is not None and abs(P2 - outlet.P) > 1e-9 * outlet.P:
-            raise SpecificationError(
-                f"outlet pressure {P2 / 1e5:.6g} bar disagrees with the measured outlet state "
-                f"at {outlet.P / 1e5:.6g} bar: give one of them")
-        P2 = outlet.P
-    elif P2 is None:
-        raise SpecificationError(f"outlet pressure is needed with {modes[0]}")
-    fluid._check_pressure(P2)
-    P1 = inlet.P
-    if raises and not P2 > P1:
-        raise InputError(
-            f"outlet pressure {P2 / 1e5:.6g} bar is not above inlet pressure {P1 / 1e5:.6g} bar: "
-            f"a {kind} raises pressure")
-    if not raises and not P2 < P1:
-        raise InputError(
-            f"outlet pressure {P2 / 1e5:.6g} bar is not below inlet pressure {P1 / 1e5:.6g} bar: "
-            "a turbine lowers pressure")
-    if abs(P2 - P1) <= 1e-9 * P1:
-        raise InputError(
-            f"outlet pressure {P2 / 1e5:.9g} bar equals the inlet pressure {P1 / 1e5:.9g} bar to "
-            f"one part in a billion: there is no pressure change to rate a {kind} by")
-    if kind == "pump" and inlet.phase in ("gas", "two-phase"):
-        raise InputError(f"the pump inlet is {fluid.name} {inlet.phase} at {inlet.T:.5g} K and "
-                         f"{P1 / 1e5:.5g} bar: a pump needs liquid at its inlet "
-                         "(use a compressor or fan for a gas)")
-
-    V1 = _velocity("inlet", v1, d1, m, inlet.rho)
-    g_dz = STANDARD_GRAVITY * dz
-    q = q_rate / m
+    a = _convert(kind, inlet, outlet, P_out, isentropic_efficiency, polytropic_efficiency,
+                 power, mass_flow, velocity_in, velocity_out, diameter_in, diameter_out,
+                 elevation_change, heat_loss, mechanical_efficiency, basis)
+    inlet, fluid, P2 = a.inlet, a.inlet.fluid, a.P_out
+    fluid.check_pressure(P2)
+    refused = _balance.pressure_refusal(a.kind, inlet.P, P2, inlet.phase)
+    if refused:
+        raise _balance.refusal_error(refused, a.kind, inlet, P2)
+    V1 = _velocity(a.velocity_in, a.diameter_in, a.mass_flow, inlet.rho)
     iso = fluid.state_Ps(P2, inlet.s, T_guess=inlet.T)
     inlet0 = _stagnation(inlet, V1)
-
-    def out_velocity(rho):
-        return _velocity("outlet", v2, d2, m, rho)
-
-    given_poly = ()
-    rated_outlet = outlet is not None
-    if outlet is not None:
-        V2 = out_velocity(outlet.rho)
+    given_polytropic = ()
+    if a.outlet is not None:
+        outlet = a.outlet
+        V2 = _velocity(a.velocity_out, a.diameter_out, a.mass_flow, outlet.rho)
     else:
-        # Predict the outlet enthalpy; iterate when the outlet velocity depends on the outlet
-        # density (flow diameter given) or the basis is total (stagnation pressure unknown).
-        V2 = out_velocity(iso.rho)
-        h2 = None
-        guess_T = iso.T
-        for _ in range(50):
-            if shaft is not None:
-                w_fluid = shaft * eta_m / m if raises else shaft / (eta_m * m)
-                w_in = w_fluid if raises else -w_fluid
-                # w_in = dh + dKE + dPE + q
-                h2_new = inlet.h + w_in - (V2 ** 2 - V1 ** 2) / 2 - g_dz - q
-            else:
-                h2_new = _outlet_enthalpy(inlet, inlet0, P2, V2, eta_s, eta_p, basis,
-                                          raises, iso, guess_T, h2)
-                if eta_p is not None:
-                    h2_new, head = h2_new
-                    given_poly = (eta_p, head)
-            converged = h2 is not None and abs(h2_new - h2) < 1e-9 * max(abs(h2_new), 1.0)
-            h2 = h2_new
-            try:
-                outlet = fluid.state_Ph(P2, h2, T_guess=guess_T)
-            except Exception as exc:
-                if shaft is not None:
-                    raise ReadingsError(
-                        f"the measured power {shaft / 1e3:.6g} kW puts the outlet enthalpy at "
-                        f"{h2 / 1e3:.6g} kJ/kg, where no state of {fluid.name} at "
-                        f"{P2 / 1e5:.6g} bar exists in the property model: check the readings"
-                    ) from exc
-                raise
-            guess_T = outlet.T
-            V2_new = out_velocity(outlet.rho)
-            static_only = basis == "static" or eta_s is None and eta_p is None
-            if (d2 is None and static_only) or (converged and abs(V2_new - V2) < 1e-9 * max(V2, 1)):
-                V2 = V2_new
-                break
-            V2 = V2_new
-        else:
-            raise SpecificationError("the outlet velocity and state did not converge: check "
-                                     "the outlet flow diameter")
-
+        outlet, V2, given_polytropic = _predict_outlet(a, iso, inlet0, V1)
     outlet0 = _stagnation(outlet, V2)
-    dh = outlet.h - inlet.h
-    dke = (V2 ** 2 - V1 ** 2) / 2
-    w_in = dh + dke + g_dz + q
-    work = w_in if raises else -w_in
-    if work <= 0:
-        raise ReadingsError(
-            f"the {kind} would {'absorb' if not raises else 'deliver'} power "
-            f"({work / 1e3:.6g} kJ/kg): the enthalpy change {dh / 1e3:.6g} kJ/kg, kinetic "
-            f"{dke / 1e3:.6g} kJ/kg and heat loss do not fit a {kind}: check the readings")
-    fluid_power = work * m
-    shaft_power = fluid_power / eta_m if raises else fluid_power * eta_m
-
-    eff_static = _isentropic_eff(inlet.h, outlet.h, iso.h, raises)
     if inlet0 is inlet and outlet0 is outlet:
         iso0 = iso  # no kinetic terms: stagnation and static states coincide
     else:
         iso0 = fluid.state_Ps(outlet0.P, inlet0.s, T_guess=iso.T)
-    eff_total = _isentropic_eff(inlet0.h, outlet0.h, iso0.h, raises)
-    eff_ts = math.nan if raises else (inlet0.h - outlet0.h) / (inlet0.h - iso.h)
-    chosen = eff_total if basis == "total" else eff_static
-    if not (chosen > 0):
-        raise ReadingsError(
-            f"the outlet enthalpy {outlet.h / 1e3:.6g} kJ/kg is not "
-            f"{'above' if raises else 'below'} the inlet enthalpy {inlet.h / 1e3:.6g} kJ/kg: "
-            f"a {kind} {'raises' if raises else 'lowers'} it: check the readings")
-    if chosen > 1 + 1e-9:
-        raise ReadingsError(
-            f"the readings imply an isentropic efficiency of {chosen:.4f} ({basis} basis), above 1: "
-            "check the readings (outlet temperature, pressures, power, flow and heat loss)")
-    head_s = abs((iso0.h - inlet0.h) if basis == "total" else (iso.h - inlet.h))
+    b = _balance.steady_flow(
+        a.kind, inlet, outlet, iso, mass_flow=a.mass_flow, velocity_in=V1, velocity_out=V2,
+        elevation_change=a.elevation_change, heat_loss=a.heat_loss,
+        mechanical_efficiency=a.mechanical_efficiency, basis=a.basis,
+        stagnation=(inlet0, outlet0, iso0))
+    if b.refusal:
+        raise _balance.refusal_error(b.refusal, a.kind, inlet, P2, basis=a.basis,
+                                     outlet=outlet, result=b)
+    rated_from = ("outlet" if a.outlet is not None
+                  else "power" if a.power is not None else "efficiency")
     return MachineResult(
-        kind=kind, basis=basis, inlet=inlet, outlet=outlet, isentropic_outlet=iso,
-        inlet_stagnation=inlet0, outlet_stagnation=outlet0, mass_flow=m, velocity_in=V1,
-        velocity_out=V2, elevation_change=dz, heat_loss=q_rate, mechanical_efficiency=eta_m,
-        specific_work=work, power=fluid_power, shaft_power=shaft_power, enthalpy_change=dh,
-        kinetic_energy_change=dke, potential_energy_change=g_dz, specific_heat_loss=q,
-        isentropic_efficiency_static=eff_static, isentropic_efficiency_total=eff_total,
-        isentropic_efficiency_total_to_static=eff_ts, isentropic_head=head_s,
-        rated_from="outlet" if rated_outlet else ("power" if shaft is not None else "efficiency"),
-        _given_polytropic=given_poly,
-    )
+        kind=a.kind, basis=a.basis, inlet=inlet, outlet=outlet, isentropic_outlet=iso,
+        inlet_stagnation=inlet0, outlet_stagnation=outlet0, mass_flow=a.mass_flow,
+        velocity_in=V1, velocity_out=V2, elevation_change=a.elevation_change,
+        heat_loss=a.heat_loss, mechanical_efficiency=a.mechanical_efficiency,
+        specific_work=b.specific_work, power=b.power, shaft_power=b.shaft_power,
+        enthalpy_change=b.enthalpy_change, kinetic_energy_change=b.kinetic_energy_change,
+        potential_energy_change=b.potential_energy_change,
+        specific_heat_loss=b.specific_heat_loss,
+        isentropic_efficiency_static=b.isentropic_efficiency_static,
+        isentropic_efficiency_total=b.isentropic_efficiency_total,
+        isentropic_efficiency_total_to_static=b.isentropic_efficiency_total_to_static,
+        isentropic_head=b.isentropic_head, rated_from=rated_from,
+        _given_polytropic=given_polytropic)
 
 
-def _isentropic_eff(h1, h2, h2s, raises):
-    if raises:
-        return (h2s - h1) / (h2 - h1) if h2 != h1 else math.nan
-    return (h1 - h2) / (h1 - h2s) if h1 != h2s else math.nan
+def _predict_outlet(a: _Inputs, iso: State, inlet0: State, V1: float):
+    """Outlet state and velocity from an efficiency or a measured power: (outlet, V2, poly).
+
+    Iterates when the outlet velocity depends on the outlet density (flow diameter given) or
+    the basis is total (the stagnation outlet pressure depends on the outlet state).
+    """
+    inlet, P2 = a.inlet, a.P_out
+    g_dz = STANDARD_GRAVITY * a.elevation_change
+    q = a.heat_loss / a.mass_flow
+    raises = RAISES_PRESSURE[a.kind]
+    static_only = a.basis == "static" or (a.isentropic_efficiency is None
+                                          and a.polytropic_efficiency is None)
+    V2 = _velocity(a.velocity_out, a.diameter_out, a.mass_flow, iso.rho)
+    h2, guess_T, given_polytropic = None, iso.T, ()
+    for _ in range(50):
+        if a.power is not None:
+            # w_in = dh + dKE + dPE + q solved for h2
+            h2_new = _balance.outlet_enthalpy_from_power(
+                a.kind, inlet.h, a.power, a.mass_flow, a.mechanical_efficiency,
+                (V2 ** 2 - V1 ** 2) / 2, g_dz, q)
+        else:
+            h2_new = _outlet_enthalpy(inlet, inlet0, P2, V2, a.isentropic_efficiency,
+                                      a.polytropic_efficiency, a.basis, raises, iso, guess_T, h2)
+            if a.polytropic_efficiency is not None:
+                h2_new, head = h2_new
+                given_polytropic = (a.polytropic_efficiency, head)
+        converged = h2 is not None and abs(h2_new - h2) < 1e-9 * max(abs(h2_new), 1.0)
+        h2 = h2_new
+        outlet = _outlet_state(a, h2, guess_T)
+        guess_T = outlet.T
+        V2_new = _velocity(a.velocity_out, a.diameter_out, a.mass_flow, outlet.rho)
+        if (a.diameter_out is None and static_only) or (
+                converged and abs(V2_new - V2) < 1e-9 * max(V2, 1)):
+            return outlet, V2_new, given_polytropic
+        V2 = V2_new
+    raise SpecificationError("the outlet velocity and state did not converge: check "
+                             "the outlet flow diameter")
+
+
+def _outlet_state(a: _Inputs, h2: float, guess_T: float) -> State:
+    """The outlet state at P_out and h2; a power the fluid cannot take is a reading error."""
+    fluid = a.inlet.fluid
+    try:
+        return fluid.state_Ph(a.P_out, h2, T_guess=guess_T)
+    except Exception as exc:
+        if a.power is not None:
+            raise ReadingsError(
+                f"the measured power {a.power / 1e3:.6g} kW puts the outlet enthalpy at "
+                f"{h2 / 1e3:.6g} kJ/kg, where no state of {fluid.name} at "
+                f"{a.P_out / 1e5:.6g} bar exists in the property model: check the readings"
+            ) from exc
+        raise
 
 
 def _stagnation(state: State, velocity: float) -> State:
@@ -590,9 +346,10 @@ def _outlet_enthalpy(inlet, inlet0, P2, V2, eta_s, eta_p, basis, raises, iso, gu
 
 def _public(kind):
     def machine(inlet, outlet=None, *, P_out=None, isentropic_efficiency=None,
-                polytropic_efficiency=None, power=None, mass_flow=1.0, velocity_in=0.0,
-                velocity_out=0.0, diameter_in=None, diameter_out=None, elevation_change=0.0,
-                heat_loss=0.0, mechanical_efficiency=1.0, basis="static") -> MachineResult:
+                polytropic_efficiency=None, power=None, mass_flow=_ONE, velocity_in=_ZERO,
+                velocity_out=_ZERO, diameter_in=None, diameter_out=None,
+                elevation_change=_ZERO, heat_loss=_ZERO, mechanical_efficiency=_ONE,
+                basis=_STATIC) -> MachineResult:
         return energy_balance(
             kind, inlet, outlet, P_out=P_out, isentropic_efficiency=isentropic_efficiency,
             polytropic_efficiency=polytropic_efficiency, power=power, mass_flow=mass_flow,
@@ -605,8 +362,9 @@ def _public(kind):
     machine.__doc__ = (
         f"Steady-flow energy balance of a {kind}.\n\n"
         f"Same parameters as :func:`energy_balance` without ``kind``.  "
-        f"{'Power is absorbed' if _KINDS[kind] else 'Power is delivered'}; results are "
-        "positive magnitudes.\n\nReturns\n-------\nMachineResult\n")
+        f"{'Power is absorbed' if RAISES_PRESSURE[kind] else 'Power is delivered'}; results "
+        "are positive magnitudes.\n\nReturns\n-------\nMachineResult\n\n"
+        "References\n----------\nASME PTC 10-1997; ASME PTC 6-2004.\n")
     return machine
 
 

@@ -1,11 +1,12 @@
-"""Process charts of the machine panel: h-s and T-s diagrams as plotly FigureWidgets.
+"""Charts of the panels as plotly FigureWidgets: process diagrams, sweeps, trains.
 
-The point helpers only turn states from the calculation layer (``Fluid.saturation_curve``,
-``Fluid.isobar``, ``polytropic.polytropic_path``) into arrays for plotting.  The figures are
-built once with a fixed set of traces; :func:`update_process_figure` (both diagrams side by
-side in one FigureWidget, :func:`make_process_figure`) and :func:`update_process_figures`
-(one FigureWidget per diagram) change the traces in place inside ``batch_update`` so a front
-end only redraws.  :func:`update_sweep_figure` does the same for a sweep figure.
+The chart series come from the calculation layer (:func:`workbench.study.process_series`
+gives the dome or dew line, isobars and the polytropic path in SI units); these helpers
+only convert them to display units and put them into figures.  Each figure is built once
+with a fixed set of traces and changed in place inside ``batch_update`` so a front end only
+redraws: :func:`update_process_figure` (h-s and T-s diagrams side by side in one
+FigureWidget, :func:`make_process_figure`), :func:`update_sweep_figure` (a sweep) and
+:func:`update_train_figure` (a train's stage powers and stations).
 
 Every FigureWidget carries the plotly JavaScript bundle (megabytes) to the page, so a panel
 should make as few of them as it can, and only when they are shown.
@@ -13,13 +14,9 @@ should make as few of them as it can, and only when they are shown.
 
 from __future__ import annotations
 
-import math
-
 import numpy as np
 import plotly.graph_objects as go
 
-from ..errors import WorkbenchError
-from ..polytropic import polytropic_path
 from .common import from_si, unit_label
 
 #: Trace order of each process figure.
@@ -42,32 +39,6 @@ def _trace_styles():
              textposition="top center"),
         dict(mode="markers", marker=dict(color="#6a9a5a", size=8, symbol="x")),
     ]
-
-def _arrays(states):
-    """(s, h, T) arrays in SI units of a list of states; ``None`` entries become NaN."""
-    rows = [(st.s, st.h, st.T) if st is not None else (math.nan,) * 3 for st in states]
-    arr = np.array(rows, dtype=float).reshape(-1, 3)
-    return arr[:, 0], arr[:, 1], arr[:, 2]
-
-
-def dome_points(fluid, points: int = 40):
-    """Saturation dome of a pure fluid, or a mixture's dew line, as ``(s, h, T)`` arrays."""
-    return _arrays(fluid.saturation_curve(points))
-
-
-def isobar_points(fluid, pressure: float, s_low: float, s_high: float, points: int = 16):
-    """``(s, h, T)`` arrays along an isobar; points the model cannot resolve are NaN."""
-    return _arrays(fluid.isobar(float(pressure), float(s_low), float(s_high), points))
-
-
-def polytropic_path_points(result, efficiency: float | None = None, steps: int = 12):
-    """``(s, h, T)`` arrays of the result's polytropic path from inlet to outlet pressure."""
-    eta = result.polytropic_efficiency if efficiency is None else efficiency
-    try:
-        states = polytropic_path(result.inlet, result.outlet.P, eta, steps)
-    except WorkbenchError:
-        states = [result.inlet]
-    return _arrays(states)
 
 
 _PRELOAD: dict = {}
@@ -137,22 +108,6 @@ def refresh_view(view, fig):
     view.clear_output(wait=True)
     with view:
         fig.show()
-
-
-def make_process_figures(width: int = 560, height: int = 400):
-    """Two empty FigureWidgets (h-s, T-s) with the traces of :data:`TRACE_NAMES`."""
-    figures = []
-    for y_title in ("specific enthalpy", "temperature"):
-        fig = new_figure()
-        for name, style in zip(TRACE_NAMES, _trace_styles()):
-            fig.add_scatter(x=[], y=[], name=name, **style)
-        fig.update_layout(width=width, height=height, margin=dict(l=60, r=10, t=30, b=90),
-                          title=dict(text=f"{y_title} vs entropy", font=dict(size=13)),
-                          legend=dict(font=dict(size=10), orientation="h", y=-0.22),
-                          template="simple_white")
-        sync_figure(fig)
-        figures.append(fig)
-    return figures
 
 
 def make_process_figure(width: int = 1120, height: int = 420):
@@ -250,28 +205,6 @@ def _range(values, pad=0.08):
     return [lo - pad * span, hi + pad * span]
 
 
-def process_points(result, path_steps: int = 12):
-    """All chart points of a result in SI units, as a dict of ``(s, h, T)`` arrays."""
-    fluid = result.inlet.fluid
-    a, b, iso = result.inlet, result.outlet, result.isentropic_outlet
-    s_lo = min(a.s, b.s, iso.s)
-    s_hi = max(a.s, b.s, iso.s)
-    span = max(s_hi - s_lo, 1.0)
-    s_lo, s_hi = s_lo - 0.15 * span, s_hi + 0.15 * span
-    pts = {
-        "dome": dome_points(fluid),
-        "inlet isobar": isobar_points(fluid, a.P, s_lo, s_hi),
-        "outlet isobar": isobar_points(fluid, b.P, s_lo, s_hi),
-        "path": polytropic_path_points(result, steps=path_steps),
-        "isentropic": (np.array([a.s, iso.s]), np.array([a.h, iso.h]), np.array([a.T, iso.T])),
-        "ends": (np.array([a.s, b.s]), np.array([a.h, b.h]), np.array([a.T, b.T])),
-        "iso end": (np.array([iso.s]), np.array([iso.h]), np.array([iso.T])),
-        # legend name of the first trace: a mixture is supported above its dew line only
-        "dome label": "dew line" if fluid.is_mixture else TRACE_NAMES[0],
-    }
-    return pts
-
-
 def sync_figure(fig):
     """Send a FigureWidget's whole data and layout state to the front end.
 
@@ -291,48 +224,6 @@ def sync_figure(fig):
         pass  # a plain Figure, redrawn by refresh_view
 
 
-def update_process_figures(figures, points, system="bar, degC"):
-    """Put process points into the two figures in place (same figure objects).
-
-    Parameters
-    ----------
-    figures : list of plotly.graph_objects.FigureWidget
-        From :func:`make_process_figures`.
-    points : dict
-        From :func:`process_points`.
-    system : str or UnitSystem
-        Display unit system of the axes.
-    """
-    order = ("dome", "inlet isobar", "outlet isobar", "path", "isentropic", "ends", "iso end")
-    s_unit = unit_label(system, "specific_entropy")
-    h_unit = unit_label(system, "specific_enthalpy")
-    T_unit = unit_label(system, "temperature")
-    for fig, y_kind, col in ((figures[0], "specific_enthalpy", 1),
-                             (figures[1], "temperature", 2)):
-        focus_x, focus_y = [], []
-        with fig.batch_update():
-            fig.data[0].name = points.get("dome label", TRACE_NAMES[0])
-            for i, key in enumerate(order):
-                s, h, T = points[key]
-                x = from_si(system, np.asarray(s, dtype=float), "specific_entropy")
-                y = from_si(system, np.asarray((h, T)[col - 1], dtype=float), y_kind)
-                fig.data[i].x = list(np.asarray(x, dtype=float))
-                fig.data[i].y = list(np.asarray(y, dtype=float))
-                if key != "dome":
-                    focus_x.extend(np.atleast_1d(x))
-                    focus_y.extend(np.atleast_1d(y))
-            fig.data[5].text = ["inlet", "outlet"]
-            fig.layout.xaxis.title.text = f"specific entropy [{s_unit}]"
-            fig.layout.yaxis.title.text = (f"specific enthalpy [{h_unit}]" if col == 1
-                                           else f"temperature [{T_unit}]")
-            x_range, y_range = _range(focus_x), _range(focus_y)
-            if x_range:
-                fig.layout.xaxis.range = x_range
-            if y_range:
-                fig.layout.yaxis.range = y_range
-        sync_figure(fig)
-
-
 def make_sweep_figure(width: int = 700, height: int = 340):
     """An empty FigureWidget for sweep results."""
     fig = new_figure()
@@ -345,17 +236,6 @@ def make_sweep_figure(width: int = 700, height: int = 340):
                                   title=dict(text="")),
                       legend=dict(orientation="h", y=-0.3))
     sync_figure(fig)
-    return fig
-
-
-def sweep_figure(x, columns: dict, x_title: str, width: int = 700, height: int = 340):
-    """A new FigureWidget of sweep columns against ``x`` (NaN rows are gaps).
-
-    Built whole with its data, so a front end draws it from its initial state; later
-    sweeps go into the same figure with :func:`update_sweep_figure`.
-    """
-    fig = make_sweep_figure(width, height)
-    update_sweep_figure(fig, x, columns, x_title)
     return fig
 
 
@@ -397,4 +277,64 @@ def update_sweep_figure(fig, x, columns: dict, x_title: str):
         layout.yaxis2.visible = len(names) > 1
         layout.yaxis2.title.text = ", ".join(names[1:])
         layout.legend.orientation, layout.legend.y = "h", -0.3
+    sync_figure(fig)
+
+
+def make_train_figure(width: int = 1040, height: int = 380):
+    """One empty FigureWidget with a train's stage shaft powers as bars (left) and its
+    stations on the h-s chart (right): traces ``shaft power``, ``main line``, ``branches``."""
+    fig = new_figure()
+    fig.add_bar(x=[], y=[], name="shaft power", marker=dict(color="#4a7fb0"), xaxis="x",
+                yaxis="y", showlegend=False)
+    fig.add_scatter(x=[], y=[], mode="lines+markers+text", name="main line",
+                    textposition="top center", line=dict(color="#222222", width=1.5),
+                    marker=dict(color="#222222", size=7), xaxis="x2", yaxis="y2")
+    fig.add_scatter(x=[], y=[], mode="markers", name="branches", xaxis="x2", yaxis="y2",
+                    marker=dict(symbol="diamond", size=10, color="#b0704a"))
+    fig.update_layout(
+        height=height, width=width, margin=dict(l=70, r=10, t=40, b=50),
+        template="simple_white",
+        xaxis=dict(domain=[0.0, 0.36]), yaxis=dict(anchor="x", title=dict(text="")),
+        xaxis2=dict(domain=[0.46, 1.0], title=dict(text="")),
+        yaxis2=dict(anchor="x2", title=dict(text="")),
+        legend=dict(orientation="h", y=-0.18, x=0.46, font=dict(size=10)),
+        annotations=[dict(text=t, x=x, y=1.02, xref="paper", yref="paper", xanchor="center",
+                          yanchor="bottom", showarrow=False, font=dict(size=13))
+                     for t, x in (("shaft power of each stage", 0.18),
+                                  ("every station on the h-s chart", 0.73))])
+    sync_figure(fig)
+    return fig
+
+
+def update_train_figure(fig, series: dict, system="bar, degC"):
+    """Put a train's chart series [SI] into the figure of :func:`make_train_figure`.
+
+    Parameters
+    ----------
+    fig : plotly.graph_objects.FigureWidget
+        From :func:`make_train_figure` (the same object is kept).
+    series : dict
+        ``"names"`` and ``"shaft_power"`` [W] of the stages, ``"main"`` and ``"branches"``
+        as ``(s, h)`` arrays [J/(kg K), J/kg] (from :func:`workbench.train_study.train_series`).
+    system : str or UnitSystem
+        Display unit system.
+    """
+    def hs(key):
+        s, h = series[key]
+        return (list(np.atleast_1d(from_si(system, np.asarray(s, float), "specific_entropy"))),
+                list(np.atleast_1d(from_si(system, np.asarray(h, float), "specific_enthalpy"))))
+
+    with fig.batch_update():
+        bars, line, branches = fig.data[:3]
+        bars.x = list(series["names"])
+        bars.y = list(np.atleast_1d(from_si(system, np.asarray(series["shaft_power"], float),
+                                            "power")))
+        line.x, line.y = hs("main")
+        line.text = [str(i) for i in range(len(line.x))]
+        branches.x, branches.y = hs("branches")
+        fig.layout.yaxis.title.text = f"shaft power [{unit_label(system, 'power')}]"
+        fig.layout.xaxis2.title.text = (
+            f"specific entropy [{unit_label(system, 'specific_entropy')}]")
+        fig.layout.yaxis2.title.text = (
+            f"specific enthalpy [{unit_label(system, 'specific_enthalpy')}]")
     sync_figure(fig)

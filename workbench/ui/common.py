@@ -1,4 +1,14 @@
-"""Shared widgets of the panels: unit switch, message area, caution banner, number entries.
+"""Shared plumbing of the panels: one panel base, message area, quiet updates, downloads.
+
+Every panel is a :class:`Panel` (an ``ipywidgets.VBox``) with one :class:`MessageArea`
+(class ``wb-message``), one safety caution banner (class ``wb-caution``, shown once), and
+:meth:`Panel.guard` around every widget callback: a :class:`~workbench.errors.WorkbenchError`
+is shown as it is, any other exception as a plain sentence (never a traceback), and the
+last good result stays visible, marked stale.  :func:`quiet_update` sets widget values
+without running the panel's observers, :func:`download_link` makes the one kind of
+download link (a ``data:`` URL), :class:`ResultRows` shows result fields described in
+:data:`workbench.fields.FIELDS`.  Entries carry the CSS class ``wb-input-<name>``, results
+``wb-result-<name>`` (:func:`input_class`, :func:`result_class`).
 
 Panels keep every value in SI units; these helpers convert to and from the display unit
 system chosen with the unit switch (:data:`workbench.units.UNIT_SYSTEMS`).  Gauge pressures
@@ -12,11 +22,14 @@ International System of Units (SI), 2008 (unit names and conversion factors).
 
 from __future__ import annotations
 
+import base64
+import contextlib
 import html
 import math
 
 import ipywidgets as widgets
 
+from ..errors import WorkbenchError
 from ..units import Q_, UNIT_SYSTEMS, ureg
 
 #: Kinds of displayed quantities beyond :data:`workbench.units.SI_UNITS`:
@@ -340,13 +353,10 @@ class NumberEntry(widgets.HBox):
         if notify:
             self.field.value = value
         else:
-            self._quiet = True
-            try:
+            with quiet_update(self):
                 self.field.value = value
                 self.si = float(to_si(self._system, value, self.kind, self._ambient))
                 self._remember(value)
-            finally:
-                self._quiet = False
 
     def set_si(self, si_value: float):
         """Set the SI value and show it, without calling ``on_change``."""
@@ -361,11 +371,8 @@ class NumberEntry(widgets.HBox):
         self._refresh()
 
     def _refresh(self):
-        self._quiet = True
-        try:
+        with quiet_update(self):
             self.field.value = self._rounded()
-        finally:
-            self._quiet = False
 
 
 class ResultField(widgets.HBox):
@@ -387,7 +394,7 @@ class ResultField(widgets.HBox):
         return html.unescape(self.text.value)
 
     def set_stale(self, stale: bool):
-        self.text.style.text_color = "#8a8a8a" if stale else None
+        self.text.style.text_color = STALE_COLOUR if stale else None
 
 
 def unit_switch(value: str = "bar, degC") -> widgets.Dropdown:
@@ -398,11 +405,9 @@ def unit_switch(value: str = "bar, degC") -> widgets.Dropdown:
     return w
 
 
-def message_area() -> widgets.HTML:
-    """The message area (class ``wb-message``): plain text, escaped."""
-    w = widgets.HTML("", layout=widgets.Layout(min_height="24px", width="100%"))
-    w.add_class("wb-message")
-    return w
+def message_area() -> MessageArea:
+    """A new :class:`MessageArea` (kept for panels built before :class:`Panel`)."""
+    return MessageArea()
 
 
 def caution_banner(text: str) -> widgets.HTML:
@@ -422,3 +427,286 @@ def choice(name: str, label: str, options, value) -> widgets.Dropdown:
                          layout=widgets.Layout(width="330px"))
     w.add_class(f"wb-input-{name}")
     return w
+
+
+# ---------------------------------------------------------------------------- plumbing
+#: Text colours of the message levels and of stale results (neutral, no status colour code).
+MESSAGE_COLOURS = {"info": "#333333", "error": "#9a3b00", "caution": "#6b5200"}
+STALE_COLOUR = "#8a8a8a"
+
+
+def input_class(widget, name: str):
+    """Give ``widget`` the test hook class ``wb-input-<name>`` and return it."""
+    widget.add_class(f"wb-input-{name}")
+    return widget
+
+
+def result_class(widget, name: str):
+    """Give ``widget`` the test hook class ``wb-result-<name>`` and return it."""
+    widget.add_class(f"wb-result-{name}")
+    return widget
+
+
+@contextlib.contextmanager
+def quiet_update(owner):
+    """Set widget values without running ``owner``'s observers.
+
+    ``owner`` is a panel or an entry with a boolean ``_quiet`` attribute that its guarded
+    callbacks check (:meth:`Panel.guard` does).  Nested use is safe: the previous value is
+    restored on exit, also when the body raises.
+
+    Examples
+    --------
+    >>> class Owner:
+    ...     _quiet = False
+    >>> owner = Owner()
+    >>> with quiet_update(owner):
+    ...     owner._quiet
+    True
+    >>> owner._quiet
+    False
+    """
+    before = getattr(owner, "_quiet", False)
+    owner._quiet = True
+    try:
+        yield owner
+    finally:
+        owner._quiet = before
+
+
+def download_link(content, file_name: str, label: str, mime: str = "text/csv") -> str:
+    """HTML of a link that downloads ``content`` (text or bytes) as ``file_name``.
+
+    The content travels inside the link as a base64 ``data:`` URL, so a served dashboard
+    needs no file on the server.  The file name and label are escaped.
+
+    Examples
+    --------
+    >>> download_link("a,b\\n1,2\\n", "sweep.csv", "download the table (CSV)")[:51]
+    "<a download='sweep.csv' href='data:text/csv;base64,"
+    """
+    data = content.encode("utf-8") if isinstance(content, str) else bytes(content)
+    encoded = base64.b64encode(data).decode("ascii")
+    name = html.escape(str(file_name), quote=True)
+    return (f"<a download='{name}' href='data:{mime};base64,{encoded}' "
+            f"target='_blank'>{html.escape(str(label))}</a>")
+
+
+def describe_error(exc: BaseException) -> str:
+    """Plain one-line text of an error for the message area, never a traceback.
+
+    A :class:`~workbench.errors.WorkbenchError` is shown as it is (its message names the
+    input, the value and the allowed range).  Any other exception is a defect, not a bad
+    input: its own text may be a library's raw message, so only its class is named.
+    """
+    if isinstance(exc, WorkbenchError):
+        text = " ".join(str(exc).split())
+        return text or exc.__class__.__name__
+    return (f"unexpected error ({exc.__class__.__name__}): the calculation stopped; check "
+            "the inputs, and please report it if they are reasonable")
+
+
+class MessageArea(widgets.HTML):
+    """The one message area of a panel (class ``wb-message``): plain text, escaped.
+
+    ``level`` is ``""`` (empty), ``"info"``, ``"caution"`` or ``"error"``; :attr:`text` is
+    the plain text shown.  Cautions are listed after the message, each once.
+    """
+
+    def __init__(self):
+        super().__init__("", layout=widgets.Layout(min_height="24px", width="100%"))
+        self.add_class("wb-message")
+        self.text = ""
+        self.level = ""
+
+    def show(self, text: str, *, error: bool = False, cautions=()) -> None:
+        """Show ``text`` (an error when ``error``), then each caution once."""
+        parts = [str(text).strip()] if str(text).strip() else []
+        seen = set()
+        for caution in cautions:
+            caution = " ".join(str(caution).split())
+            if caution and caution not in seen:
+                seen.add(caution)
+                parts.append(f"caution: {caution}")
+        self.text = "; ".join(parts)
+        self.level = "" if not parts else "error" if error else (
+            "caution" if seen else "info")
+        if not parts:
+            self.value = ""
+            return
+        colour = MESSAGE_COLOURS[self.level]
+        self.value = (f"<div style='color:{colour};padding:2px 0'>"
+                      f"{html.escape(self.text, quote=False)}</div>")
+
+    def show_error(self, error, prefix: str = "") -> None:
+        """Show an exception (see :func:`describe_error`) or a text as an error."""
+        text = describe_error(error) if isinstance(error, BaseException) else str(error)
+        self.show(prefix + text, error=True)
+
+    def clear(self) -> None:
+        """Empty the message area."""
+        self.show("")
+
+
+class ResultRows(widgets.VBox):
+    """Result rows of fields described in :data:`workbench.fields.FIELDS`.
+
+    Each row is a :class:`ResultField` with the field's label and the class
+    ``wb-result-<name>`` (underscores of the field name become dashes).  Values are given
+    in SI units and shown in the display unit system; efficiencies and shares (the fields
+    named in ``percent``) are shown in percent.
+
+    Parameters
+    ----------
+    names : sequence of str
+        Field names (keys of ``FIELDS``), in the order shown.
+    percent : collection of str
+        Field names shown in percent.
+    labels : dict, optional
+        Field name -> label where the panel words it differently (e.g. a unit-free note).
+    """
+
+    def __init__(self, names, percent=(), labels=None):
+        from ..fields import field
+
+        labels = labels or {}
+        self.fields = {name: field(name) for name in names}
+        self.kinds = {name: "percent" if name in percent else f.kind
+                      for name, f in self.fields.items()}
+        self.rows = {hook(name): ResultField(hook(name), labels.get(name, f.label),
+                                             self.kinds[name])
+                     for name, f in self.fields.items()}
+        super().__init__(list(self.rows.values()))
+
+    def show(self, values: dict, system, ambient_pressure: float = DEFAULT_AMBIENT,
+             notes=None) -> None:
+        """Show SI ``values`` (field name -> number; missing or NaN shows a dash).
+
+        ``notes`` maps a field name to a text shown instead of the number.
+        """
+        notes = notes or {}
+        for name, kind in self.kinds.items():
+            row = self.rows[hook(name)]
+            if name in notes:
+                row.show(notes[name])
+                continue
+            value = values.get(name)
+            if value is None or not math.isfinite(value):
+                row.show("–")
+                continue
+            number = format_number(from_si(system, value, kind, ambient_pressure), kind)
+            unit = unit_label(system, kind)
+            row.show(number if unit == "-" else f"{number} {unit}")
+
+    def clear(self) -> None:
+        """Show a dash in every row."""
+        for row in self.rows.values():
+            row.show("–")
+
+    def set_stale(self, stale: bool) -> None:
+        """Grey every value (stale) or show it normally."""
+        for row in self.rows.values():
+            row.set_stale(stale)
+
+    def shown(self, name: str) -> str:
+        """Text shown in row ``name`` (field name or hook name)."""
+        return self.rows[hook(name)].shown
+
+    def __getitem__(self, name: str) -> ResultField:
+        """The row of a field (field name or hook name)."""
+        return self.rows[hook(name)]
+
+
+def hook(name: str) -> str:
+    """Hook name of a field or entry name: ``"shaft_power"`` -> ``"shaft-power"``."""
+    return str(name).strip().replace("_", "-")
+
+
+class Panel(widgets.VBox):
+    """Base of every panel: one message area, one caution banner, guarded callbacks.
+
+    A subclass builds its widgets (calling :meth:`_ensure_plumbing` first if it needs
+    :attr:`message` while building), places :attr:`caution` and :attr:`message` in its
+    children and calls ``super().__init__(children)``.  It registers its result widgets (anything with ``set_stale``) with
+    :meth:`add_result_widget`, wraps every observer with :meth:`guard`, and reports a good
+    result with :meth:`show_result`.
+
+    Attributes
+    ----------
+    message : MessageArea
+        The one message area (class ``wb-message``).
+    caution : ipywidgets.HTML
+        The safety caution banner (class ``wb-caution``), once per panel.
+    result : object or None
+        The last good result.
+    stale : bool
+        True when the result shown belongs to earlier inputs.
+    """
+
+    css_class = "wb-panel"
+
+    def __init__(self, children=(), **kwargs):
+        self._ensure_plumbing()
+        super().__init__(list(children), **kwargs)
+        self.add_class(self.css_class)
+
+    def _ensure_plumbing(self):
+        """Create the plumbing attributes once (a subclass may need them while building)."""
+        if getattr(self, "_plumbed", False):
+            return
+        self._plumbed = True
+        self._quiet = False
+        self.result = None
+        self.stale = False
+        self._result_widgets = []
+        self.message = MessageArea()
+        from .. import SAFETY_CAUTION
+
+        self.caution = caution_banner(SAFETY_CAUTION)
+
+    def quiet(self):
+        """Context manager: set widget values without running this panel's callbacks."""
+        self._ensure_plumbing()
+        return quiet_update(self)
+
+    def guard(self, callback, prefix: str = ""):
+        """``callback`` wrapped for an observer or button: skipped during :meth:`quiet`;
+        an exception is shown in the message area (with ``prefix``), never raised, and the
+        last good result stays, marked stale.  The wrapped call returns None on failure."""
+        def guarded(*args, **kwargs):
+            if self._quiet:
+                return None
+            try:
+                return callback(*args, **kwargs)
+            except Exception as exc:  # noqa: BLE001 - nothing escapes into the page
+                self.fail(exc, prefix)
+                return None
+        guarded.__name__ = getattr(callback, "__name__", "guarded")
+        guarded.__doc__ = getattr(callback, "__doc__", None)
+        return guarded
+
+    def fail(self, error, prefix: str = "") -> None:
+        """Show ``error`` (exception or text) and mark the shown result stale."""
+        self._ensure_plumbing()
+        self.message.show_error(error, prefix)
+        self.set_stale(self.result is not None)
+
+    def show_result(self, result, text: str = "", cautions=()) -> None:
+        """Keep ``result`` as the last good one, unmark stale and show ``text``."""
+        self._ensure_plumbing()
+        self.result = result
+        self.set_stale(False)
+        self.message.show(text, cautions=cautions)
+
+    def add_result_widget(self, widget):
+        """Register a widget with ``set_stale(bool)`` to grey with the result; returns it."""
+        self._ensure_plumbing()
+        self._result_widgets.append(widget)
+        return widget
+
+    def set_stale(self, stale: bool) -> None:
+        """Mark the shown result stale (grey) or current; subclasses may extend it."""
+        self._ensure_plumbing()
+        self.stale = bool(stale)
+        for widget in self._result_widgets:
+            widget.set_stale(self.stale)

@@ -1,4 +1,4 @@
-"""Tests of the field-test data panel (workbench.ui.test_data_panel).
+"""Tests of the readings dashboard panel (workbench.ui.readings_panel).
 
 The panel must show what the library computes: results from ``evaluate``, error bars from
 ``propagate_uncertainty`` and steady flags from ``steady_state_flags`` on the same readings,
@@ -22,14 +22,9 @@ from workbench.fieldtest import (
     read_readings,
     steady_state_flags,
 )
-from workbench.ui.test_data_panel import (
-    DEMO_FILE,
-    DEMO_GAS,
-    DEMO_MAP,
-    FIELD_TRACES,
-    FieldDataPanel,
-    parse_fluid,
-)
+from workbench.fieldtest.session import parse_fluid
+from workbench.ui.readings_chart import READINGS_TRACES
+from workbench.ui.readings_panel import DEMO_FILE, DEMO_GAS, DEMO_MAP, ReadingsPanel
 
 #: Unit factors to SI of the demo file's units (NIST SP 811): 1 bar = 1e5 Pa, 1 kW = 1e3 W,
 #: 1 m3/h = 1/3600 m3/s; a difference of 1 degC is 1 K (definition of the Celsius scale).
@@ -38,7 +33,7 @@ TO_SI = {"bar": 1e5, "°C": 1.0, "Sm³/h": 1 / 3600, "kW": 1e3, "rpm": 1.0}
 
 @pytest.fixture(scope="module")
 def demo():
-    return FieldDataPanel.demo()
+    return ReadingsPanel.demo()
 
 
 @pytest.fixture(scope="module")
@@ -55,11 +50,11 @@ def library():
 
 def traces(panel):
     """The figure's traces by (chart, trace name)."""
-    n = len(FIELD_TRACES)
+    n = len(READINGS_TRACES)
     data = panel.figure.data
     return {(chart, name): data[offset + i]
             for offset, chart in ((0, "efficiency"), (n, "power"))
-            for i, name in enumerate(FIELD_TRACES)}
+            for i, name in enumerate(READINGS_TRACES)}
 
 
 def hand_tolerances(panel):
@@ -107,11 +102,11 @@ def test_table_colours_flagged_rows_and_export_has_every_row(demo):
 
 
 def test_one_figure_widget_updated_in_place():
-    panel = FieldDataPanel.demo()
+    panel = ReadingsPanel.demo()
     figure, before = panel.figure, list(panel.figure.data)
     assert isinstance(figure, go.FigureWidget)
-    assert len(before) == 2 * len(FIELD_TRACES)  # both charts are subplots of one figure
-    assert before[0].xaxis == "x" and before[len(FIELD_TRACES)].xaxis == "x2"
+    assert len(before) == 2 * len(READINGS_TRACES)  # both charts are subplots of one figure
+    assert before[0].xaxis == "x" and before[len(READINGS_TRACES)].xaxis == "x2"
     steady_before = len(before[0].x)
     panel.steady_window.value = 10  # longer window: fewer steady rows, same traces
     panel.evaluate()
@@ -216,7 +211,7 @@ def test_default_tolerances_follow_the_readings():
     # Source: common practice (from memory) for permissible fluctuations, as documented in the
     # panel: 1 % of the median absolute pressure, 1 K for temperatures, 2 % of the flow
     raw = pd.read_csv(DEMO_FILE)
-    panel = FieldDataPanel(DEMO_FILE.name, DEMO_FILE.read_bytes(), DEMO_MAP,
+    panel = ReadingsPanel(DEMO_FILE.name, DEMO_FILE.read_bytes(), DEMO_MAP,
                            ambient_pressure=101300.0)
     p1 = pd.to_numeric(raw["PT-201 suction bar(g)"], errors="coerce").median() + 1.013
     assert panel.tolerance["inlet_pressure"].value == pytest.approx(0.01 * p1, rel=0.03)
@@ -235,7 +230,7 @@ def test_default_tolerances_follow_the_readings():
 
 
 def test_bad_tolerance_or_window_gives_a_message_and_keeps_the_table():
-    panel = FieldDataPanel.demo()
+    panel = ReadingsPanel.demo()
     table = panel.table.value
     panel.tolerance["inlet_pressure"].value = -0.5  # no exception may escape
     assert "tolerance -0.5 bar of the inlet pressure" in panel.message.value
@@ -244,13 +239,15 @@ def test_bad_tolerance_or_window_gives_a_message_and_keeps_the_table():
     panel.tolerance["inlet_pressure"].value = 0.19
     assert "wb-fresh" in panel.summary.value
     panel.steady_window.value = 1
-    assert "at least 2 rows" in panel.message.value
+    assert "steady-state window [rows] 1 is outside the allowed range [2," in panel.message.value
+    message = panel.message.value
     panel.evaluate()  # the evaluation refuses the same window with the same message
-    assert "at least 2 rows" in panel.message.value
+    assert panel.message.value == message
+    assert panel.table.value == table
 
 
 def test_bad_map_gives_a_message_and_keeps_the_last_table():
-    panel = FieldDataPanel.demo()
+    panel = ReadingsPanel.demo()
     table = panel.table.value
     panel.map_column["outlet_temperature"].value = "(not measured)"
     panel.map_column["power"].value = "(not measured)"
@@ -266,7 +263,7 @@ def test_upload_of_an_excel_file(tmp_path):
                           "m kg/s": [1.0, 1.0, 1.0]})
     path = tmp_path / "air.xlsx"
     frame.to_excel(path, index=False)
-    panel = FieldDataPanel(fluid="Air")
+    panel = ReadingsPanel(fluid="Air")
     panel.upload.value = ({"name": "air.xlsx", "content": memoryview(path.read_bytes()),
                            "type": "", "size": 0,
                            "last_modified": datetime.datetime(2026, 3, 14)},)
@@ -284,14 +281,67 @@ def test_upload_of_an_excel_file(tmp_path):
     assert panel.results.loc[0, "isentropic_efficiency"] == pytest.approx(eta, rel=5e-3)
 
 
-def test_fluid_text_is_parsed_not_evaluated():
-    assert parse_fluid("Methane=0.9; Ethane=0.1").components == ("Methane", "Ethane")
-    with pytest.raises(wb.WorkbenchError):
-        parse_fluid("Methane=__import__('os')")
-
-
 def test_design_entries_not_given_are_zero_not_nan():
     # NaN cannot travel to the browser as a widget value; 0 stands for "not given"
-    panel = FieldDataPanel(fluid="Air")
+    panel = ReadingsPanel(fluid="Air")
     assert panel.d_speed.field.value == 0.0
-    assert panel._design().speed is None
+    assert panel.current_setup().design.speed is None
+
+
+def upload_value(name: str, content: bytes):
+    """The value an ipywidgets FileUpload holds after a browser upload."""
+    return ({"name": name, "type": "", "size": len(content), "content": memoryview(content),
+             "last_modified": datetime.datetime(2026, 3, 14)},)
+
+
+def test_a_broken_file_keeps_the_last_table_marked_stale():
+    panel = ReadingsPanel.demo()
+    table, results = panel.table.value, panel.results
+    for name, content, words in (
+            ("junk.csv", b"\x00\x9f\x12" * 50, "not a text (CSV) file"),
+            ("cut.xlsx", b"PK\x03\x04 truncated", "could not be read as an Excel workbook"),
+            ("empty.csv", b"", "is empty"),
+            ("header.csv", b"a,b,c\n", "no rows")):
+        panel.upload.value = upload_value(name, content)  # no exception may escape
+        assert words in panel.message.text and name in panel.message.text
+        assert panel.message.level == "error"
+        assert panel.table.value == table and panel.results is results
+        assert "wb-stale" in panel.summary.value
+    # the last good file is still loaded: evaluating again refreshes the same results
+    assert panel.file_name == DEMO_FILE.name and panel.evaluate() is True
+    assert "wb-fresh" in panel.summary.value and panel.table.value == table
+
+
+def test_a_file_over_the_upload_limit_gets_a_message():
+    from workbench.fieldtest.session import UPLOAD_LIMIT_BYTES
+
+    panel = ReadingsPanel.demo()
+    table = panel.table.value
+    panel.upload.value = upload_value("huge.csv", bytes(UPLOAD_LIMIT_BYTES + 1))
+    assert "largest file accepted is 20 MiB" in panel.message.text
+    assert panel.table.value == table and "wb-stale" in panel.summary.value
+    assert panel.file_name == DEMO_FILE.name  # the demo file stays loaded
+
+
+def test_a_large_file_shows_a_progress_bar(monkeypatch):
+    import workbench.ui.readings_panel as module
+
+    frame = pd.DataFrame({"p1": [1.0] * 40, "t1": [20.0] * 40, "p2": [2.0] * 40,
+                          "t2": [90.0] * 40, "m": [1.0] * 40})
+    panel = ReadingsPanel("air.csv", frame.to_csv(index=False).encode(), fluid="Air")
+    panel.set_column_map({"inlet_pressure": ("p1", "bar(a)"),
+                          "inlet_temperature": ("t1", "degC"),
+                          "outlet_pressure": ("p2", "bar(a)"),
+                          "outlet_temperature": ("t2", "degC"), "mass_flow": ("m", "kg/s")})
+    assert "wb-result-progress" in panel.progress._dom_classes
+    seen = []
+    panel.progress.observe(lambda change: seen.append(
+        (change["new"], panel.progress.layout.display)), names="value")
+    assert panel.evaluate() is True  # 40 rows: below PROGRESS_ROWS, no bar
+    assert seen == [] and panel.progress.layout.display == "none"
+    monkeypatch.setattr(module, "PROGRESS_ROWS", 20)  # 40 rows are now a large file
+    assert panel.evaluate() is True
+    values = [v for v, _ in seen]
+    assert values[-1] == 100 and values == sorted(values) and len(values) >= 3
+    assert all(display is None for _, display in seen)  # shown while it moved
+    assert panel.progress.layout.display == "none"  # hidden when done

@@ -1,7 +1,8 @@
-"""Setup files of the test-data panel: plain JSON, SI values, validated on load.
+"""Field-test setup files: plain JSON, SI values, a format version, validated on load.
 
 A performance engineer who reads the same logger export again and again saves the whole setup
-of :class:`~workbench.ui.test_data_panel.FieldDataPanel` once and loads it onto the next file.
+of a field-test session (:mod:`workbench.fieldtest.session`, shown by the readings dashboard
+:class:`~workbench.ui.readings_panel.ReadingsPanel`) once and loads it onto the next file.
 A setup file is a JSON object::
 
     {"format": "turbo-workbench field-test setup", "format_version": 1,
@@ -23,7 +24,8 @@ file the setup was made with and is informational only.  ``null`` marks a design
 is not given.  Unknown keys, missing keys, wrong types, numbers out of range and mapped
 columns that the current readings file does not have are refused with a
 :class:`~workbench.errors.CaseFileError` that names the key; nothing is ever evaluated or
-unpickled.  The functions here use no widgets.
+unpickled.  Numbers pass the workbench's input boundary (:mod:`workbench.units`).  The
+functions here use no widgets.
 
 References
 ----------
@@ -36,10 +38,12 @@ from __future__ import annotations
 
 import json
 import math
+from contextlib import contextmanager
 
-from ..errors import CaseFileError
-from ..fieldtest.readers import READING_KINDS, convert_values, parse_unit
-from .cases import read_json_source
+from .. import units
+from ..errors import CaseFileError, InputError
+from ..machine_case import parse_case_json, read_case_text
+from .readers import READING_KINDS, convert_values, parse_unit
 
 FORMAT_NAME = "turbo-workbench field-test setup"
 FORMAT_VERSION = 1
@@ -139,32 +143,47 @@ def difference_from_si(value: float, unit: str, kind: str, name: str) -> float:
 
 
 # ---------------------------------------------------------------------- checks of single keys
-def _number(key, value, lo=-math.inf, hi=math.inf, lo_open=False, allow_null=False):
+@contextmanager
+def _setup_key():
+    """The input boundary's refusals, as the CaseFileError of a setup file."""
+    try:
+        yield
+    except InputError as exc:
+        raise CaseFileError(str(exc)) from None
+
+
+def _shown(value) -> str:
+    """Short text of a JSON value for a message (containers by their kind only)."""
+    if isinstance(value, (dict, list)):
+        return "a JSON " + ("object" if isinstance(value, dict) else "array")
+    if isinstance(value, int) and not isinstance(value, bool) and abs(value) > 10**40:
+        return "an integer of more than 40 digits"
+    text = "null" if value is None else repr(value)
+    return text if len(text) <= 60 else text[:57] + "..."
+
+
+def _number(key, value, lo=None, hi=None, lo_open=False, allow_null=False, kind="dimensionless"):
     if value is None and allow_null:
         return None
-    if isinstance(value, bool) or not isinstance(value, (int, float)):
-        extra = " or null (not given)" if allow_null else ""
-        raise CaseFileError(f"setup key {key!r} must be a number{extra}, not {value!r}")
-    value = float(value)
-    if not math.isfinite(value):
-        raise CaseFileError(f"setup key {key!r} must be a finite number, not {value}")
-    if value < lo or value > hi or (lo_open and value == lo):
-        left = "(" if lo_open else "["
-        hint = " (use null for a value not given)" if allow_null and value == 0 else ""
-        raise CaseFileError(f"setup key {key!r} = {value:g} is outside the allowed range "
-                            f"{left}{lo:g}, {hi:g}]{hint}")
-    return value
+    if value is None:
+        raise CaseFileError(f"setup key {key!r} must be a number, not null")
+    hint = (" (use null for a value not given)" if allow_null and value == 0
+            and not isinstance(value, bool) else "")
+    try:
+        return units.to_si(value, kind, f"setup key {key!r}", low=lo, high=hi, low_open=lo_open)
+    except InputError as exc:
+        raise CaseFileError(f"{exc}{hint}") from None
 
 
 def _choice(key, value, options):
-    if not isinstance(value, str) or value not in options:
-        raise CaseFileError(f"setup key {key!r} = {value!r} is not one of: "
-                            + ", ".join(repr(o) for o in options))
-    return value
+    with _setup_key():
+        return units.choice(value, options, f"setup key {key!r}")
 
 
 def _text(key, value):
-    if not isinstance(value, str) or not value.strip():
+    with _setup_key():
+        value = units.text(value, f"setup key {key!r}")
+    if not value.strip():
         raise CaseFileError(f"setup key {key!r} must be a non-empty text, not {value!r}")
     return value
 
@@ -172,7 +191,7 @@ def _text(key, value):
 def _object(key, value, keys, optional=()):
     """A JSON object with exactly ``keys`` (``optional`` ones may be left out)."""
     if not isinstance(value, dict):
-        raise CaseFileError(f"setup key {key!r} must be a JSON object, not {value!r}")
+        raise CaseFileError(f"setup key {key!r} must be a JSON object, not {_shown(value)}")
     prefix = f"{key}." if key else ""
     unknown = [k for k in value if k not in keys]
     if unknown:
@@ -196,7 +215,7 @@ def _column(key, name, value, file_columns, file_name):
         shown = f"the readings file {file_name!r}" if file_name else "the loaded readings file"
         if not file_columns:
             shown = "no readings file is loaded: it"
-        raise CaseFileError(f"setup key '{key}.column': {shown} has no column {column!r}")
+        raise CaseFileError(f"setup key '{key}.column': {shown} has no column {_shown(column)}")
     unit = _choice(f"{key}.unit", value["unit"], UNIT_CHOICES[kind])
     tolerance = _number(f"{key}.{tol_key}", value[tol_key], lo=0.0)
     return {"column": column, "unit": unit, tol_key: tolerance}
@@ -232,22 +251,22 @@ def validate_setup(data, file_columns=None, file_name: str = "") -> dict:
     _object("", data, _TOP_KEYS, optional=_OPTIONAL_TOP)
     if data["format"] != FORMAT_NAME:
         raise CaseFileError(f"setup key 'format' must be {FORMAT_NAME!r}, not "
-                            f"{data['format']!r}")
+                            f"{_shown(data['format'])}")
     version = data["format_version"]
     if isinstance(version, bool) or version != FORMAT_VERSION:
-        raise CaseFileError(f"setup key 'format_version' = {version!r} is not supported "
+        raise CaseFileError(f"setup key 'format_version' = {_shown(version)} is not supported "
                             f"(this workbench reads version {FORMAT_VERSION})")
     out = {"format": FORMAT_NAME, "format_version": FORMAT_VERSION}
     for key in _OPTIONAL_TOP:
         value = data.get(key, "")
         if not isinstance(value, str):
-            raise CaseFileError(f"setup key {key!r} must be text, not {value!r}")
+            raise CaseFileError(f"setup key {key!r} must be text, not {_shown(value)}")
         out[key] = value
     out["machine"] = _choice("machine", data["machine"], MACHINES)
     out["fluid"] = _text("fluid", data["fluid"])
     out["property_model"] = _choice("property_model", data["property_model"], PROPERTY_MODELS)
     out["ambient_pressure_Pa"] = _number("ambient_pressure_Pa", data["ambient_pressure_Pa"],
-                                         *AMBIENT_RANGE)
+                                         *AMBIENT_RANGE, kind="pressure")
     out["mechanical_efficiency"] = _number("mechanical_efficiency",
                                            data["mechanical_efficiency"], 0.0, 1.0,
                                            lo_open=True)
@@ -256,10 +275,12 @@ def validate_setup(data, file_columns=None, file_name: str = "") -> dict:
                                     file_name)
                       for name in READING_KINDS if name in columns}
     window = data["steady_window_rows"]
-    if isinstance(window, bool) or not isinstance(window, int) or not 2 <= window <= MAX_WINDOW:
+    if not isinstance(window, int):  # JSON 5.0 is not a count of rows
         raise CaseFileError(f"setup key 'steady_window_rows' must be a whole number of rows "
-                            f"from 2 to {MAX_WINDOW}, not {window!r}")
-    out["steady_window_rows"] = window
+                            f"from 2 to {MAX_WINDOW}, not {_shown(window)}")
+    with _setup_key():
+        out["steady_window_rows"] = units.count(window, "setup key 'steady_window_rows'",
+                                                low=2, high=MAX_WINDOW)
     u = _object("instrument_uncertainty", data["instrument_uncertainty"], UNCERTAINTY_KEYS)
     out["instrument_uncertainty"] = {
         key: (_number(f"instrument_uncertainty.{key}", u[key], 0.0) if key == "temperature_K"
@@ -268,7 +289,7 @@ def validate_setup(data, file_columns=None, file_name: str = "") -> dict:
     d = _object("design_point", data["design_point"], DESIGN_KEYS)
     out["design_point"] = {
         key: _number(f"design_point.{key}", d[key], 0.0,
-                     1.0 if key == "isentropic_efficiency" else math.inf, lo_open=True,
+                     1.0 if key == "isentropic_efficiency" else None, lo_open=True,
                      allow_null=True)
         for key in DESIGN_KEYS}
     return out
@@ -324,12 +345,16 @@ def make_setup(*, machine: str, fluid: str, property_model: str, ambient_pressur
 
 
 def read_setup(source, file_columns=None, file_name: str = "") -> dict:
-    """Read and validate a setup from a dict, a JSON text, bytes, or a file path.
+    """Read and validate a setup from a dict, a JSON text or bytes, or a :class:`pathlib.Path`.
 
-    Returns the result of :func:`validate_setup` (``file_columns`` and ``file_name`` are
-    passed on).
+    A ``str`` is always the JSON text itself, never opened as a file name.  The text is
+    parsed by the project's safe JSON reader (:func:`workbench.machine_case.parse_case_json`:
+    size, nesting depth, NaN and Infinity checked).  Returns the result of
+    :func:`validate_setup` (``file_columns`` and ``file_name`` are passed on).
     """
-    return validate_setup(read_json_source(source, "setup"), file_columns, file_name)
+    data = source if isinstance(source, dict) else parse_case_json(read_case_text(source),
+                                                                    "setup")
+    return validate_setup(data, file_columns, file_name)
 
 
 def setup_json(setup: dict) -> str:

@@ -1,0 +1,168 @@
+"""Fuzz the curves entry points with random and hostile values (hypothesis, fixed seed).
+
+Every call returns finite results or raises a WorkbenchError with a message; nothing raw
+(TypeError, ZeroDivisionError, a CoolProp or scipy error), no NaN or inf escapes.
+"""
+
+import math
+
+import numpy as np
+from hypothesis import HealthCheck, given, settings
+from hypothesis import strategies as st
+
+import workbench as wb
+from workbench.curves import PipeSection, SystemCurve
+from workbench.curves.fan import compressibility_coefficient, fan_test, mach_factor
+from workbench.curves.similarity import CompressorCondition
+
+SETTINGS = dict(derandomize=True, deadline=None, database=None,
+                suppress_health_check=[HealthCheck.too_slow, HealthCheck.filter_too_much])
+
+hostile = st.one_of(
+    st.floats(allow_nan=True, allow_infinity=True),
+    st.floats(-1e3, 1e3),
+    st.integers(min_value=-10 ** 30, max_value=10 ** 400),
+    st.booleans(), st.none(), st.text(max_size=4),
+    st.lists(st.floats(-10, 10), max_size=3),
+    st.sampled_from([wb.Q_(1.0, "kg"), wb.Q_(2.0, "bar"), wb.Q_(3.0, "m**3/h"),
+                     wb.Q_(1480, "rpm"), np.float32(0.5), np.int64(3), {"a": 1}, b"x"]),
+)
+arrays = st.one_of(
+    st.lists(st.one_of(st.floats(allow_nan=True, allow_infinity=True), st.floats(-1, 100)),
+             min_size=0, max_size=8),
+    hostile,
+)
+
+WATER = wb.Fluid("Water").state(P=101325.0, T=293.15)
+AIR = wb.Fluid("Air").state(P=100000.0, T=293.15)
+ARGON = wb.Fluid("Argon")
+Q = [0.0, 0.02, 0.04, 0.06, 0.08]
+H = [60.0, 58.4, 53.6, 45.6, 34.4]
+CURVE = wb.PerformanceCurve(Q, H, speed=150.0, efficiency=[0.3, 0.6, 0.75, 0.78, 0.7],
+                            npsh_required=[1.5, 1.7, 2.1, 2.9, 4.0])
+SYSTEM = SystemCurve(WATER, static_head=15.0, suction_head=2.0,
+                     sections=[PipeSection(0.15, length=200.0, loss_coefficient=5.0,
+                                           suction=True)])
+COND = CompressorCondition(ARGON, 1.0e5, 300.0, 1.8e5, 386.0, 0.9, 1000.0)
+
+
+def _finite(value):
+    if isinstance(value, dict):
+        for v in value.values():
+            _finite(v)
+    elif isinstance(value, (float, np.floating)):
+        assert math.isfinite(value), value
+    elif isinstance(value, np.ndarray):
+        assert np.all(np.isfinite(value))
+
+
+def _call(fn, *args, **kwargs):
+    try:
+        out = fn(*args, **kwargs)
+    except wb.WorkbenchError as exc:
+        assert str(exc).strip()
+        return None
+    if hasattr(out, "to_dict"):
+        _finite(out.to_dict())
+    else:
+        _finite(out)
+    return out
+
+
+CURVE_ARGS = dict(flow=Q, head=H, speed=150.0, machine="pump", efficiency=None, fit="pchip",
+                  degree=2, min_flow=None, max_flow=None, name="c")
+
+
+@settings(max_examples=400, **SETTINGS)
+@given(key=st.sampled_from(sorted(CURVE_ARGS)), value=st.one_of(hostile, arrays))
+def test_performance_curve(key, value):
+    kwargs = dict(CURVE_ARGS, **{key: value})
+    flow, head = kwargs.pop("flow"), kwargs.pop("head")
+    curve = _call(wb.PerformanceCurve, flow, head, **kwargs)
+    if curve is not None:
+        _call(curve.head, 0.03)
+
+
+@settings(max_examples=300, **SETTINGS)
+@given(method=st.sampled_from(["head", "efficiency", "power", "surge_margin", "at_speed",
+                               "npsh_required"]), value=st.one_of(hostile, arrays),
+       extrapolate=st.one_of(st.booleans(), hostile))
+def test_curve_readings(method, value, extrapolate):
+    if method in ("surge_margin", "at_speed"):
+        _call(getattr(CURVE, method), value)
+    else:
+        _call(getattr(CURVE, method), value, extrapolate=extrapolate)
+
+
+SYSTEM_ARGS = dict(static_head=15.0, pressure_difference=0.0, suction_head=None,
+                   diameter=0.15, length=100.0, roughness=4.5e-5, loss_coefficient=3.0)
+
+
+@settings(max_examples=200, **SETTINGS)
+@given(key=st.sampled_from(sorted(SYSTEM_ARGS)), value=hostile,
+       throttle=st.one_of(st.none(), st.floats(0.1, 1e3), hostile),
+       speed=st.one_of(st.none(), st.floats(50.0, 300.0), hostile))
+def test_system_and_operating_point(key, value, throttle, speed):
+    kwargs = dict(SYSTEM_ARGS, **{key: value})
+    section = {k: kwargs.pop(k) for k in ("diameter", "length", "roughness",
+                                          "loss_coefficient")}
+    system = _call(SystemCurve, WATER, sections=[section], **kwargs)
+    if system is not None:
+        _call(wb.operating_point, CURVE, system, throttle=throttle, speed=speed)
+
+
+PUMP_ARGS = dict(test_flow=[0.02, 0.03, 0.04, 0.05, 0.06], test_head=[58, 55, 51, 46, 40],
+                 test_speed=150.0, rated_speed=152.0, guarantee_flow=0.04, guarantee_head=52.0,
+                 guarantee_efficiency=0.7, guarantee_power=None,
+                 test_power=[2e4, 2.3e4, 2.7e4, 3.0e4, 3.3e4], grade="2B", density=998.0,
+                 fit="polynomial", degree=2)
+
+
+@settings(max_examples=300, **SETTINGS)
+@given(key=st.sampled_from(sorted(PUMP_ARGS)), value=st.one_of(hostile, arrays))
+def test_pump_acceptance(key, value):
+    kwargs = dict(PUMP_ARGS, **{key: value})
+    _call(wb.pump_acceptance, kwargs.pop("test_flow"), kwargs.pop("test_head"), **kwargs)
+
+
+FAN_ARGS = dict(outlet_pressure=101500.0, volume_flow=4.0, inlet_area=0.8, outlet_area=0.4,
+                power=9000.0, isentropic_exponent=None)
+
+
+@settings(max_examples=150, **SETTINGS)
+@given(key=st.sampled_from(sorted(FAN_ARGS)), value=hostile)
+def test_fan(key, value):
+    _call(fan_test, AIR, **dict(FAN_ARGS, **{key: value}))
+
+
+@settings(max_examples=200, **SETTINGS)
+@given(args=st.lists(st.one_of(hostile, st.floats(0.01, 2e5)), min_size=5, max_size=5))
+def test_compressibility_and_mach_factor(args):
+    _call(compressibility_coefficient, *args)
+    _call(mach_factor, args[0])
+
+
+SIM_ARGS = dict(diameter=0.4, width=0.022, test_type="2", method="schultz",
+                reynolds_correction=False, roughness=3.2e-6, limits=None, uncertainties=None)
+COND_FIELDS = ("inlet_pressure", "inlet_temperature", "discharge_pressure",
+               "discharge_temperature", "volume_flow", "speed")
+
+
+@settings(max_examples=120, **SETTINGS)
+@given(key=st.sampled_from(sorted(SIM_ARGS) + list(COND_FIELDS)), value=hostile)
+def test_compressor_similarity(key, value):
+    if key in COND_FIELDS:
+        readings = dict(COND.readings(), **{key: value})
+        test = _call(CompressorCondition, ARGON, **readings)
+        if test is not None:
+            _call(wb.compressor_similarity, test, COND, diameter=0.4, width=0.022)
+        return
+    _call(wb.compressor_similarity, COND, COND, **dict(SIM_ARGS, **{key: value}))
+
+
+@settings(max_examples=60, **SETTINGS)
+@given(reading=st.sampled_from(COND_FIELDS + ("torque",)), b=hostile,
+       s=st.one_of(st.floats(0.0, 1.0), hostile))
+def test_similarity_uncertainties(reading, b, s):
+    _call(wb.compressor_similarity, COND, COND, diameter=0.4, width=0.022,
+          uncertainties={reading: (b, s)})
