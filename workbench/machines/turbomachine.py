@@ -430,7 +430,7 @@ def energy_balance(kind: str, inlet: State, outlet: State | None = None, *, P_ou
         P2 = outlet.P
     elif P2 is None:
         raise SpecificationError(f"outlet pressure is needed with {modes[0]}")
-    fluid.check_pressure(P2)
+    fluid.check_pressure(P2, "outlet pressure")
     P1 = inlet.P
     if raises and not P2 > P1:
         raise InputError(
