@@ -279,9 +279,11 @@ def test_bad_access_options_are_refused(monkeypatch, capsys, tmp_path, argv, mes
     ("192.0.2.7:8866", "0.0.0.0", True),
     ("[2001:db8::5]:8866", "::", True),
     ("dashboards.plant.example:8866", "0.0.0.0", True),  # given with --allow-host
+    ("198.51.100.9:8866", "192.0.2.7", True),  # an address given with --allow-host (NAT)
 ])
 def test_host_header_rule(header, bound, allowed):
-    names = cli.host_names(bound, ["dashboards.plant.example"] if bound == "0.0.0.0" else [])
+    extra = {"0.0.0.0": ["dashboards.plant.example"], "192.0.2.7": ["198.51.100.9"]}
+    names = cli.host_names(bound, extra.get(bound, []))
     assert cli.host_allowed(header, bound, names) is allowed
 
 

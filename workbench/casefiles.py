@@ -48,7 +48,6 @@ from __future__ import annotations
 import json
 import math
 import os
-import re
 from dataclasses import dataclass, field
 from typing import Any
 
@@ -65,7 +64,6 @@ MAX_DEPTH = 20
 MAX_INT_DIGITS = 30
 
 _MISSING = object()
-_STRING = re.compile(r'"(?:[^"\\]|\\.)*"', re.DOTALL)
 
 
 # ---------------------------------------------------------------------- reading
@@ -113,11 +111,24 @@ def _parse_constant(name: str):
 
 
 def _depth(text: str) -> int:
-    """Deepest nesting of brackets outside strings (a linear scan, no recursion)."""
-    bare = _STRING.sub("", text)
-    steps = np.frombuffer(bare.encode("utf-8", "replace"), dtype=np.uint8)
-    opening = (steps == ord("[")) | (steps == ord("{"))
-    closing = (steps == ord("]")) | (steps == ord("}"))
+    """Deepest nesting of brackets outside strings: one vectorised pass, no recursion and
+    no regular expression (so no backtracking on hostile text).
+
+    A quote opens or closes a string unless an odd number of backslashes precedes it; UTF-8
+    never puts an ASCII byte inside a multi-byte character, so bytes can be scanned.
+    """
+    data = np.frombuffer(text.encode("utf-8", "surrogatepass"), dtype=np.uint8)
+    if data.size == 0:
+        return 0
+    index = np.arange(data.size)
+    backslash = data == ord("\\")
+    last_other = np.maximum.accumulate(np.where(backslash, -1, index))
+    run_before = np.zeros(data.size, dtype=np.int64)
+    run_before[1:] = index[:-1] - last_other[:-1]  # backslashes just before each byte
+    quote = (data == ord('"')) & (run_before % 2 == 0)
+    outside = np.cumsum(quote) % 2 == 0
+    opening = ((data == ord("[")) | (data == ord("{"))) & outside
+    closing = ((data == ord("]")) | (data == ord("}"))) & outside
     if not opening.any():
         return 0
     return int(np.cumsum(opening.astype(np.int64) - closing.astype(np.int64)).max())

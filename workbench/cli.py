@@ -79,7 +79,7 @@ EXPOSED_WARNING = (
     "calculations on this computer. Use the default host 127.0.0.1 unless you mean to "
     "share them, and share the token only with the people meant to use them."
 )
-_HOST_NAME = re.compile(r"^[A-Za-z0-9]([A-Za-z0-9.-]{0,251}[A-Za-z0-9])?$")
+_HOST_NAME = re.compile(r"^([A-Za-z0-9]([A-Za-z0-9.-]{0,251}[A-Za-z0-9])?|\[?[0-9A-Fa-f:.]+\]?)$")
 
 
 def notebooks_dir() -> Path:
@@ -190,8 +190,8 @@ def host_allowed(header: str, bound: str, names) -> bool:
     Returns
     -------
     bool
-        True for a loopback address, a name of ``names``, the bound address itself, or any
-        IP literal when bound to every interface.  A DNS-rebinding page always sends its own
+        True for a loopback address, a name (or address) of ``names``, the bound address
+        itself, or any IP literal when bound to every interface.  A DNS-rebinding page always sends its own
         *name*; an IP literal means the browser addressed this machine directly.
 
     Examples
@@ -204,10 +204,12 @@ def host_allowed(header: str, bound: str, names) -> bool:
     host = split_host_header(header)
     if not host:
         return False
+    if host in {n.lower() for n in names}:
+        return True
     try:
         address = ipaddress.ip_address(host)
     except ValueError:
-        return host in {n.lower() for n in names}
+        return False
     if address.is_loopback or bound in WILDCARD_HOSTS:
         return True
     try:
