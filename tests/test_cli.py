@@ -357,6 +357,7 @@ def _refused(response) -> bool:
         response.status_code in (302, 303) and "/login" in response.headers.get("Location", ""))
 
 
+@pytest.mark.slow
 def test_live_loopback_with_a_token(live):
     port, _ = live("--token", "test-token-1234")
     assert _refused(_get(port, "/"))
@@ -370,6 +371,7 @@ def test_live_loopback_with_a_token(live):
     assert _get(port, "/?token=test-token-1234", host=f"localhost:{port}").status_code == 200
 
 
+@pytest.mark.slow
 def test_live_loopback_default_is_token_free_but_checks_the_host(live):
     port, log = live()
     assert _get(port, "/").status_code == 200
@@ -384,6 +386,7 @@ def test_live_loopback_default_is_token_free_but_checks_the_host(live):
     assert _get(port, channels, headers=upgrade).status_code != 403
 
 
+@pytest.mark.slow
 def test_live_all_interfaces_requires_the_printed_token(live):
     # bound to every interface; requests are sent to 127.0.0.1 only
     port, log = live("--host", "0.0.0.0", "--allow-host", "dashboards.plant.example")

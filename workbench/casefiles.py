@@ -25,7 +25,8 @@ Checking (:func:`validate`)
     ``count``, ``choice``, ``text``, ``flag``); unknown keys, missing keys and wrong values
     are refused with a CaseFileError naming the key (``"case key 'inputs.mass_flow_kg_per_s'
     ..."``).  A spec takes ``required=False`` and a ``default`` for keys that may be left
-    out, and ``nullable=True`` for a value that may be ``null`` (returned as None).
+    out (defaults are copied, never shared), and ``nullable=True`` for a value that may be
+    ``null`` (returned as None).
 
 Examples
 --------
@@ -45,6 +46,7 @@ infinity).
 
 from __future__ import annotations
 
+import copy
 import json
 import math
 import os
@@ -464,7 +466,9 @@ class Exact(Spec):
 
 @dataclass(frozen=True)
 class Object(Spec):
-    """A nested object checked against its own schema (see :func:`validate`)."""
+    """A nested object checked against its own schema (see :func:`validate`).  With
+    ``required=False`` and no ``default``, a missing object is read as ``{}``: its keys
+    take their own defaults (and a required one is reported missing)."""
 
     schema: dict = field(default_factory=dict)
 
@@ -545,9 +549,11 @@ def _validate(data, schema: dict, what: str, path: str = "") -> dict:
             continue
         default = getattr(spec, "default", _MISSING)
         if default is not _MISSING:
-            out[key] = default
+            out[key] = copy.deepcopy(default)  # a default dict or list is never shared
         elif getattr(spec, "required", True):
             raise InputError(f"{_key(what, _join(path, key))} is missing")
+        elif isinstance(spec, Object):  # an optional object left out: its own defaults
+            out[key] = _validate({}, spec.schema, what, _join(path, key))
     return out
 
 
