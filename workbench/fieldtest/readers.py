@@ -430,7 +430,7 @@ def _parse_csv(text: str, label: str, read_options) -> pd.DataFrame:
     if not text.strip():
         raise ReadingsError(f"reading file {label!r} is empty")
     try:
-        return pd.read_csv(io.StringIO(text), dtype=str, keep_default_na=False, **read_options)
+        return pd.read_csv(io.StringIO(text), dtype=object, keep_default_na=False, **read_options)
     except pd.errors.EmptyDataError:
         raise ReadingsError(f"reading file {label!r} is empty: no header row") from None
     except pd.errors.ParserError as exc:
