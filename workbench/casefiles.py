@@ -281,6 +281,13 @@ def load_json_file(path, what: str, *, max_bytes: int = MAX_BYTES,
 
     Raises CaseFileError naming the file when it does not exist, is a folder, cannot be read
     or is above ``max_bytes``; the content then goes through :func:`parse_json`.
+
+    Examples
+    --------
+    >>> load_json_file("no-such-case.json", "case")
+    Traceback (most recent call last):
+    ...
+    workbench.errors.CaseFileError: the case file 'no-such-case.json' does not exist
     """
     if not isinstance(path, (str, os.PathLike)):
         raise CaseFileError(f"a {what} file path must be text or a path, not "
@@ -597,7 +604,13 @@ def validate(data, schema: dict, what: str) -> dict:
 
 def read_and_validate(source, schema: dict, what: str, *, text: bool = False,
                       max_bytes: int = MAX_BYTES) -> dict:
-    """:func:`read_json` then :func:`validate`: the one call a loader needs."""
+    """:func:`read_json` then :func:`validate`: the one call a loader needs.
+
+    Examples
+    --------
+    >>> read_and_validate(b'{"points": 5}', {"points": Whole(low=2)}, "case")
+    {'points': 5}
+    """
     return validate(read_json(source, what, text=text, max_bytes=max_bytes), schema, what)
 
 
