@@ -283,3 +283,17 @@ def test_environment_untouched_by_reading(tmp_path):
     before = sorted(os.listdir(tmp_path))
     read_json(b'{"a": 1}', "case")
     assert sorted(os.listdir(tmp_path)) == before
+
+
+def test_defaults_are_copied_and_optional_objects_fill_their_own():
+    schema = {"inputs": Object(required=False, schema={
+        "composition": MappingOf(values=Number(low=0.0, high=1.0),
+                                 default={"Methane": 1.0}),
+        "points": Whole(low=2, default=11)})}
+    first = validate({}, schema, "case")
+    assert first == {"inputs": {"composition": {"Methane": 1.0}, "points": 11}}
+    first["inputs"]["composition"]["Ethane"] = 0.5
+    assert validate({}, schema, "case")["inputs"]["composition"] == {"Methane": 1.0}
+    needed = {"inputs": Object(required=False, schema={"p": Number("pressure")})}
+    with pytest.raises(CaseFileError, match="case key 'inputs.p' is missing"):
+        validate({}, needed, "case")

@@ -279,9 +279,11 @@ def test_bad_access_options_are_refused(monkeypatch, capsys, tmp_path, argv, mes
     ("192.0.2.7:8866", "0.0.0.0", True),
     ("[2001:db8::5]:8866", "::", True),
     ("dashboards.plant.example:8866", "0.0.0.0", True),  # given with --allow-host
+    ("198.51.100.9:8866", "192.0.2.7", True),  # an address given with --allow-host (NAT)
 ])
 def test_host_header_rule(header, bound, allowed):
-    names = cli.host_names(bound, ["dashboards.plant.example"] if bound == "0.0.0.0" else [])
+    extra = {"0.0.0.0": ["dashboards.plant.example"], "192.0.2.7": ["198.51.100.9"]}
+    names = cli.host_names(bound, extra.get(bound, []))
     assert cli.host_allowed(header, bound, names) is allowed
 
 
@@ -355,6 +357,7 @@ def _refused(response) -> bool:
         response.status_code in (302, 303) and "/login" in response.headers.get("Location", ""))
 
 
+@pytest.mark.slow
 def test_live_loopback_with_a_token(live):
     port, _ = live("--token", "test-token-1234")
     assert _refused(_get(port, "/"))
@@ -368,6 +371,7 @@ def test_live_loopback_with_a_token(live):
     assert _get(port, "/?token=test-token-1234", host=f"localhost:{port}").status_code == 200
 
 
+@pytest.mark.slow
 def test_live_loopback_default_is_token_free_but_checks_the_host(live):
     port, log = live()
     assert _get(port, "/").status_code == 200
@@ -382,6 +386,7 @@ def test_live_loopback_default_is_token_free_but_checks_the_host(live):
     assert _get(port, channels, headers=upgrade).status_code != 403
 
 
+@pytest.mark.slow
 def test_live_all_interfaces_requires_the_printed_token(live):
     # bound to every interface; requests are sent to 127.0.0.1 only
     port, log = live("--host", "0.0.0.0", "--allow-host", "dashboards.plant.example")

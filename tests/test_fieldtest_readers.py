@@ -288,3 +288,15 @@ def test_no_raw_exception_from_random_bytes():
                 read_readings(content, MAP, UNITS, file_name=name)
             except WorkbenchError:
                 pass
+
+
+def test_a_workbook_that_expands_beyond_reason_is_refused():
+    # a "zip bomb": 10 MB of zeros compress to about 10 kB (deflate, RFC 1951)
+    import zipfile
+    buffer = io.BytesIO()
+    with zipfile.ZipFile(buffer, "w", zipfile.ZIP_DEFLATED) as archive:
+        archive.writestr("xl/worksheets/sheet1.xml", b"0" * 10_000_000)
+    content = buffer.getvalue()
+    assert len(content) < 100_000
+    with pytest.raises(ReadingsError, match="expands to 10,000,000 bytes"):
+        read_table(content, file_name="bomb.xlsx", max_bytes=100_000)

@@ -25,7 +25,8 @@ Checking (:func:`validate`)
     ``count``, ``choice``, ``text``, ``flag``); unknown keys, missing keys and wrong values
     are refused with a CaseFileError naming the key (``"case key 'inputs.mass_flow_kg_per_s'
     ..."``).  A spec takes ``required=False`` and a ``default`` for keys that may be left
-    out, and ``nullable=True`` for a value that may be ``null`` (returned as None).
+    out (defaults are copied, never shared), and ``nullable=True`` for a value that may be
+    ``null`` (returned as None).
 
 Examples
 --------
@@ -45,10 +46,10 @@ infinity).
 
 from __future__ import annotations
 
+import copy
 import json
 import math
 import os
-import re
 from dataclasses import dataclass, field
 from typing import Any
 
@@ -65,7 +66,6 @@ MAX_DEPTH = 20
 MAX_INT_DIGITS = 30
 
 _MISSING = object()
-_STRING = re.compile(r'"(?:[^"\\]|\\.)*"', re.DOTALL)
 
 
 # ---------------------------------------------------------------------- reading
@@ -113,11 +113,24 @@ def _parse_constant(name: str):
 
 
 def _depth(text: str) -> int:
-    """Deepest nesting of brackets outside strings (a linear scan, no recursion)."""
-    bare = _STRING.sub("", text)
-    steps = np.frombuffer(bare.encode("utf-8", "replace"), dtype=np.uint8)
-    opening = (steps == ord("[")) | (steps == ord("{"))
-    closing = (steps == ord("]")) | (steps == ord("}"))
+    """Deepest nesting of brackets outside strings: one vectorised pass, no recursion and
+    no regular expression (so no backtracking on hostile text).
+
+    A quote opens or closes a string unless an odd number of backslashes precedes it; UTF-8
+    never puts an ASCII byte inside a multi-byte character, so bytes can be scanned.
+    """
+    data = np.frombuffer(text.encode("utf-8", "surrogatepass"), dtype=np.uint8)
+    if data.size == 0:
+        return 0
+    index = np.arange(data.size)
+    backslash = data == ord("\\")
+    last_other = np.maximum.accumulate(np.where(backslash, -1, index))
+    run_before = np.zeros(data.size, dtype=np.int64)
+    run_before[1:] = index[:-1] - last_other[:-1]  # backslashes just before each byte
+    quote = (data == ord('"')) & (run_before % 2 == 0)
+    outside = np.cumsum(quote) % 2 == 0
+    opening = ((data == ord("[")) | (data == ord("{"))) & outside
+    closing = ((data == ord("]")) | (data == ord("}"))) & outside
     if not opening.any():
         return 0
     return int(np.cumsum(opening.astype(np.int64) - closing.astype(np.int64)).max())
@@ -268,6 +281,13 @@ def load_json_file(path, what: str, *, max_bytes: int = MAX_BYTES,
 
     Raises CaseFileError naming the file when it does not exist, is a folder, cannot be read
     or is above ``max_bytes``; the content then goes through :func:`parse_json`.
+
+    Examples
+    --------
+    >>> load_json_file("no-such-case.json", "case")
+    Traceback (most recent call last):
+    ...
+    workbench.errors.CaseFileError: the case file 'no-such-case.json' does not exist
     """
     if not isinstance(path, (str, os.PathLike)):
         raise CaseFileError(f"a {what} file path must be text or a path, not "
@@ -453,7 +473,9 @@ class Exact(Spec):
 
 @dataclass(frozen=True)
 class Object(Spec):
-    """A nested object checked against its own schema (see :func:`validate`)."""
+    """A nested object checked against its own schema (see :func:`validate`).  With
+    ``required=False`` and no ``default``, a missing object is read as ``{}``: its keys
+    take their own defaults (and a required one is reported missing)."""
 
     schema: dict = field(default_factory=dict)
 
@@ -534,9 +556,11 @@ def _validate(data, schema: dict, what: str, path: str = "") -> dict:
             continue
         default = getattr(spec, "default", _MISSING)
         if default is not _MISSING:
-            out[key] = default
+            out[key] = copy.deepcopy(default)  # a default dict or list is never shared
         elif getattr(spec, "required", True):
             raise InputError(f"{_key(what, _join(path, key))} is missing")
+        elif isinstance(spec, Object):  # an optional object left out: its own defaults
+            out[key] = _validate({}, spec.schema, what, _join(path, key))
     return out
 
 
@@ -580,7 +604,13 @@ def validate(data, schema: dict, what: str) -> dict:
 
 def read_and_validate(source, schema: dict, what: str, *, text: bool = False,
                       max_bytes: int = MAX_BYTES) -> dict:
-    """:func:`read_json` then :func:`validate`: the one call a loader needs."""
+    """:func:`read_json` then :func:`validate`: the one call a loader needs.
+
+    Examples
+    --------
+    >>> read_and_validate(b'{"points": 5}', {"points": Whole(low=2)}, "case")
+    {'points': 5}
+    """
     return validate(read_json(source, what, text=text, max_bytes=max_bytes), schema, what)
 
 

@@ -79,7 +79,7 @@ EXPOSED_WARNING = (
     "calculations on this computer. Use the default host 127.0.0.1 unless you mean to "
     "share them, and share the token only with the people meant to use them."
 )
-_HOST_NAME = re.compile(r"^[A-Za-z0-9]([A-Za-z0-9.-]{0,251}[A-Za-z0-9])?$")
+_HOST_NAME = re.compile(r"^([A-Za-z0-9]([A-Za-z0-9.-]{0,251}[A-Za-z0-9])?|\[?[0-9A-Fa-f:.]+\]?)$")
 
 
 def notebooks_dir() -> Path:
@@ -142,6 +142,11 @@ def host_names(host: str, allowed=()) -> list[str]:
 
     ``localhost`` always; ``host`` itself when it is a name; this machine's name and fully
     qualified name when bound to every interface; then ``allowed`` (``--allow-host``).
+
+    Examples
+    --------
+    >>> host_names("127.0.0.1", ["dashboards.plant.example"])
+    ['localhost', 'dashboards.plant.example']
     """
     names = ["localhost"]
     if host and not _is_ip(host):
@@ -166,7 +171,13 @@ def _is_ip(text: str) -> bool:
 
 
 def split_host_header(value: str) -> str:
-    """Host of a ``Host`` header without its port and IPv6 brackets, lower case."""
+    """Host of a ``Host`` header without its port and IPv6 brackets, lower case.
+
+    Examples
+    --------
+    >>> split_host_header("[::1]:8866"), split_host_header("LocalHost:8866")
+    ('::1', 'localhost')
+    """
     value = (value or "").strip().lower()
     if value.startswith("["):
         return value[1:value.find("]")] if "]" in value else value[1:]
@@ -190,8 +201,8 @@ def host_allowed(header: str, bound: str, names) -> bool:
     Returns
     -------
     bool
-        True for a loopback address, a name of ``names``, the bound address itself, or any
-        IP literal when bound to every interface.  A DNS-rebinding page always sends its own
+        True for a loopback address, a name (or address) of ``names``, the bound address
+        itself, or any IP literal when bound to every interface.  A DNS-rebinding page always sends its own
         *name*; an IP literal means the browser addressed this machine directly.
 
     Examples
@@ -204,10 +215,12 @@ def host_allowed(header: str, bound: str, names) -> bool:
     host = split_host_header(header)
     if not host:
         return False
+    if host in {n.lower() for n in names}:
+        return True
     try:
         address = ipaddress.ip_address(host)
     except ValueError:
-        return host in {n.lower() for n in names}
+        return False
     if address.is_loopback or bound in WILDCARD_HOSTS:
         return True
     try:
@@ -240,7 +253,13 @@ class HostCheckingIdentityProvider(PasswordIdentityProvider):
 
 
 def check_token(token: str) -> str:
-    """An access token given with ``--token``: 8 to 256 URL-safe characters."""
+    """An access token given with ``--token``: 8 to 256 URL-safe characters.
+
+    Examples
+    --------
+    >>> check_token("team-token-42")
+    'team-token-42'
+    """
     if not isinstance(token, str) or not TOKEN_PATTERN.match(token):
         raise ValueError("the access token must be 8 to 256 characters of letters, digits "
                          "and - _ . ~ (it travels in the address as ?token=...)")

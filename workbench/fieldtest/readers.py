@@ -385,6 +385,25 @@ def _decode(data: bytes, label: str) -> str:
     raise ReadingsError(f"reading file {label!r} is not text")  # pragma: no cover (latin-1)
 
 
+#: Most a workbook may expand to when unzipped, as a multiple of the size limit (a sheet of
+#: numbers compresses about tenfold; a "zip bomb" expands a thousandfold).
+MAX_EXPANSION = 50
+
+
+def _check_archive(data: bytes, label: str, max_bytes: int) -> None:
+    """Refuse a damaged archive or one that would expand beyond reason before parsing it."""
+    try:
+        with zipfile.ZipFile(io.BytesIO(data)) as archive:
+            expanded = sum(item.file_size for item in archive.infolist())
+    except (zipfile.BadZipFile, OSError, ValueError, EOFError):
+        raise ReadingsError(f"reading file {label!r} is a damaged or truncated Excel workbook"
+                            ) from None
+    limit = MAX_EXPANSION * max_bytes
+    if expanded > limit:
+        raise ReadingsError(f"reading file {label!r} expands to {expanded:,} bytes when "
+                            f"unzipped, more than the limit of {limit:,}")
+
+
 def _parse_excel(data: bytes, label: str, sheet_name, read_options) -> pd.DataFrame:
     try:
         return pd.read_excel(io.BytesIO(data), sheet_name=sheet_name, dtype=object,
@@ -411,7 +430,7 @@ def _parse_csv(text: str, label: str, read_options) -> pd.DataFrame:
     if not text.strip():
         raise ReadingsError(f"reading file {label!r} is empty")
     try:
-        return pd.read_csv(io.StringIO(text), dtype=str, keep_default_na=False, **read_options)
+        return pd.read_csv(io.StringIO(text), dtype=object, keep_default_na=False, **read_options)
     except pd.errors.EmptyDataError:
         raise ReadingsError(f"reading file {label!r} is empty: no header row") from None
     except pd.errors.ParserError as exc:
@@ -471,6 +490,7 @@ def read_table(source, *, file_name: str | None = None, sheet_name=0,
         raise ReadingsError(f"reading file {label!r} is in the old binary Excel format (.xls): "
                             "save it as .xlsx or CSV")
     if isinstance(data, bytes) and data.startswith(_ZIP_MAGIC):
+        _check_archive(data, label, limit)
         raw = _parse_excel(data, label, sheet_name, read_options)
     elif suffix in _EXCEL_SUFFIXES:
         what = "empty" if not data else "not an Excel workbook (an .xlsx file is a zip archive)"

@@ -211,7 +211,7 @@ def energy_balance(kind: str, inlet: State, outlet: State | None = None, *, P_ou
                  power, mass_flow, velocity_in, velocity_out, diameter_in, diameter_out,
                  elevation_change, heat_loss, mechanical_efficiency, basis)
     inlet, fluid, P2 = a.inlet, a.inlet.fluid, a.P_out
-    fluid.check_pressure(P2)
+    fluid.check_pressure(P2, "outlet pressure")
     refused = _balance.pressure_refusal(a.kind, inlet.P, P2, inlet.phase)
     if refused:
         raise _balance.refusal_error(refused, a.kind, inlet, P2)

@@ -101,10 +101,6 @@ class State:
     cp: float = math.nan
     phase: str = ""
 
-    def __post_init__(self):
-        if self.x is None:  # accepted from older callers: no quality means single-phase
-            object.__setattr__(self, "x", math.nan)
-
     @property
     def two_phase(self) -> bool:
         """True inside the two-phase region (a vapour quality is defined)."""
