@@ -30,6 +30,9 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from ..errors import InputError
+from ..units import count, positive, to_si_array
+
 #: Margin [K] kept between a fast-path state and the dew line.
 DEW_MARGIN = 5.0
 
@@ -81,7 +84,7 @@ class PhaseEnvelope:
         >>> env.edge_temperature(np.array([20e5])).round(1)  # crossings at 240.6 K and 180 K
         array([240.6])
         """
-        P = np.atleast_1d(np.asarray(P, dtype=float))
+        P = to_si_array(P, "pressure", "pressure")
         if not self.traced:
             return np.full(len(P), np.nan)
         x = np.log(P)
@@ -110,7 +113,9 @@ class PhaseEnvelope:
         finds none), plus ``margin``.  NaN when the envelope was not traced or does not reach
         down to the least pressure.
         """
-        P = np.asarray(P, dtype=float)
+        P = to_si_array(P, "pressure", "pressure")
+        margin = positive(margin, "temperature_difference", "dew margin")
+        probes = count(probes, "probes", low=1, high=100)
         P = P[np.isfinite(P) & (P > 0)]
         if not len(P) or not self.traced:
             return math.nan
@@ -128,21 +133,23 @@ class PhaseEnvelope:
 
     def clear(self, P, T, margin: float = DEW_MARGIN) -> np.ndarray:
         """Mask of the states (arrays P [Pa], T [K]) clear of the envelope by ``margin`` [K]."""
-        P, T = np.asarray(P, dtype=float), np.asarray(T, dtype=float)
+        T = to_si_array(T, "temperature", "temperature")
+        margin = positive(margin, "temperature_difference", "dew margin")
         edge = self.edge_temperature(P)
+        if len(edge) != len(T):
+            raise InputError(f"pressure and temperature arrays need equal lengths, not "
+                             f"{len(edge)} and {len(T)}")
         with np.errstate(invalid="ignore"):
             return np.isfinite(T) & ~np.isnan(edge) & (T > edge + margin)
 
 
-def phase_envelope(components, fractions) -> PhaseEnvelope:
-    """The phase envelope of a mixture (mole fractions), traced once and cached.
+def phase_envelope(fluid) -> PhaseEnvelope:
+    """The phase envelope of a mixture, traced once and cached.
 
     Parameters
     ----------
-    components : sequence of str
-        Property-library component names.
-    fractions : sequence of float
-        Mole fractions, summing to 1.
+    fluid : Fluid
+        A mixture (its components and mole fractions).
 
     Returns
     -------
@@ -150,13 +157,24 @@ def phase_envelope(components, fractions) -> PhaseEnvelope:
         Not ``traced`` when the property library could not trace it (the caller then uses
         exact dew-point flashes).
 
+    Raises
+    ------
+    InputError
+        If ``fluid`` is not a mixture :class:`workbench.properties.Fluid`.
+
     Examples
     --------
-    >>> env = phase_envelope(("Methane", "Ethane"), (0.9, 0.1))
+    >>> import workbench as wb
+    >>> env = phase_envelope(wb.Fluid({"Methane": 0.9, "Ethane": 0.1}))
     >>> 190.0 < env.cricondentherm < 260.0
     True
     """
-    key = (tuple(components), tuple(round(f, 12) for f in fractions))
+    from .fluid import Fluid
+
+    if not isinstance(fluid, Fluid) or not fluid.is_mixture:
+        raise InputError(f"a phase envelope needs a mixture Fluid, not {type(fluid).__name__}"
+                         + ("" if not isinstance(fluid, Fluid) else f" {fluid.name}"))
+    key = (tuple(fluid.components), tuple(round(f, 12) for f in fluid.fractions))
     with _LOCK:
         found = _CACHE.get(key)
         if found is None:

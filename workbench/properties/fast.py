@@ -29,6 +29,8 @@ import threading
 
 import numpy as np
 
+from ..errors import InputError
+from ..units import to_si_array
 from . import envelope as _envelope
 from . import if97_vec, tables
 
@@ -73,24 +75,28 @@ def prepare(fluid, pressures, temperatures, tolerance=None):
         The box starts :data:`workbench.properties.envelope.DEW_MARGIN` above the highest dew
         temperature over its pressures (envelope and exact dew points checked).
     """
+    from .fluid import Fluid
+
+    if not isinstance(fluid, Fluid):
+        raise InputError(f"fluid must be a Fluid, not {type(fluid).__name__}")
+    P = to_si_array(pressures, "pressure", "pressures")
+    T = to_si_array(temperatures, "temperature", "temperatures")
+    tolerance = tables.checked_tolerance(tolerance)
     if not fluid.is_mixture or fluid.backend != "HEOS":
         return None
-    P = np.asarray(pressures, dtype=float).ravel()
-    T = np.asarray(temperatures, dtype=float).ravel()
     with np.errstate(invalid="ignore"):
         P = P[np.isfinite(P) & (P > 0) & (P <= fluid.P_max)]
         T = T[np.isfinite(T) & (T >= fluid.T_min) & (T <= fluid.T_max)]
     if len(P) + len(T) < MIN_ROWS or not len(P) or not len(T):
         return None
-    env = _envelope.phase_envelope(fluid.components, fluid.fractions)
+    env = _envelope.phase_envelope(fluid)
     floor = env.limit(P, fluid.dew_temperature)
     if not math.isfinite(floor):
         return None
     t0, t1 = max(float(T.min()), floor), float(T.max())
     if not t1 > t0:
         return None
-    table = tables.table_for(_key(fluid), lambda: tables.GasFlasher(fluid.components,
-                                                                     fluid.fractions),
+    table = tables.table_for(_key(fluid), lambda: tables.GasFlasher(fluid),
                              (float(P.min()), float(P.max())), (t0, t1), tolerance,
                              T_floor=floor, T_ceiling=fluid.T_max, P_ceiling=fluid.P_max)
     if not table.usable:
@@ -136,9 +142,7 @@ def states(fluid, pair, P, value, exact, make):
     found = None
     tabulated = np.zeros(n, dtype=bool)
     if fluid.backend == "IF97":
-        flash = {"PT": if97_vec.flash_PT, "Ph": if97_vec.flash_Ph,
-                 "Ps": if97_vec.flash_Ps}[pair]
-        found = flash(P, value)
+        found = if97_vec.array_flash(pair, P, value)
     elif fluid.is_mixture:
         table = active_table(fluid)
         if table is not None:

@@ -31,6 +31,9 @@ from __future__ import annotations
 
 import numpy as np
 
+from ..errors import InputError
+from ..units import to_si_array
+
 #: Specific gas constant of IAPWS-IF97 [J/(kg K)].
 R = 461.526
 #: Critical temperature [K] and pressure [Pa] of IAPWS-IF97.
@@ -179,7 +182,7 @@ def region1(P, T):
     >>> round(float(h[0]) / 1e3, 6)  # IAPWS R7-97 table 5: 0.115331273e3 kJ/kg
     115.331273
     """
-    return _region1(P, T)[:4]
+    return _region1(*_checked(P, T, "temperature"))[:4]
 
 
 def _region1(P, T):
@@ -225,7 +228,7 @@ def region2(P, T):
     >>> round(float(s[0]) / 1e3, 7)  # IAPWS R7-97 table 15: 0.101749996e2 kJ/(kg K)
     10.1749996
     """
-    return _region2(P, T)[:4]
+    return _region2(*_checked(P, T, "temperature"))[:4]
 
 
 def _region2(P, T):
@@ -251,15 +254,8 @@ def _region2(P, T):
             _rho_slope(rho, T, tau, P, pyg_py * inv_y))
 
 
-def saturation_temperature(P):
-    """Saturation temperature [K] at arrays P [Pa] (IAPWS R7-97 eq. 31; NaN outside
-    611.213 Pa to the critical pressure).
-
-    Examples
-    --------
-    >>> round(float(saturation_temperature(np.array([10e6]))[0]), 6)  # table 35: 584.149488 K
-    584.149488
-    """
+def _saturation_temperature(P):
+    """Array form without the input boundary (see :func:`saturation_temperature`)."""
     n1, n2, n3, n4, n5, n6, n7, n8, n9, n10 = _N4
     P = np.asarray(P, dtype=float)
     with np.errstate(invalid="ignore"):
@@ -272,15 +268,8 @@ def saturation_temperature(P):
         return np.where((P >= 611.212677) & (P <= P_CRITICAL), T, np.nan)
 
 
-def saturation_pressure(T):
-    """Saturation pressure [Pa] at arrays T [K] (IAPWS R7-97 eq. 30; NaN outside 273.15 K to
-    the critical temperature).
-
-    Examples
-    --------
-    >>> round(float(saturation_pressure(np.array([500.0]))[0]) / 1e6, 8)  # table 35
-    2.63889776
-    """
+def _saturation_pressure(T):
+    """Array form without the input boundary (see :func:`saturation_pressure`)."""
     n1, n2, n3, n4, n5, n6, n7, n8, n9, n10 = _N4
     T = np.asarray(T, dtype=float)
     with np.errstate(invalid="ignore"):
@@ -292,8 +281,8 @@ def saturation_pressure(T):
         return np.where((T >= T_LOW) & (T <= T_CRITICAL), P, np.nan)
 
 
-def boundary_23_pressure(T):
-    """Pressure [Pa] of the boundary between regions 2 and 3 at T [K] (IAPWS R7-97 eq. 5)."""
+def _boundary_23_pressure(T):
+    """Array form without the input boundary (see :func:`boundary_23_pressure`)."""
     n1, n2, n3 = _N23
     T = np.asarray(T, dtype=float)
     return (n1 + n2 * T + n3 * T * T) * 1e6
@@ -352,13 +341,8 @@ def _phase_words(P, T, liquid):
     return words
 
 
-def region_of(P, T):
-    """1 or 2 where (P [Pa], T [K]) lies clearly inside region 1 or 2, else 0.
-
-    States within :data:`BOUNDARY_MARGIN` of the saturation line, of the region 1/3 and 2/3
-    boundaries, of the ends of the temperature range or of the critical pressure and
-    temperature get 0, as do states outside regions 1 and 2.
-    """
+def _region_of(P, T):
+    """Array form without the input boundary (see :func:`region_of`)."""
     P, T = np.asarray(P, dtype=float), np.asarray(T, dtype=float)
     m = BOUNDARY_MARGIN
     with np.errstate(invalid="ignore"):
@@ -366,58 +350,28 @@ def region_of(P, T):
                   & (np.abs(P - P_CRITICAL) > m * P_CRITICAL)
                   & (np.abs(T - T_CRITICAL) > m * T_CRITICAL))
         low = T < T_13 * (1 - m)
-        p_sat = saturation_pressure(np.where(low, T, T_LOW))
-        t_sat = saturation_temperature(np.clip(P, P_TRIPLE, P_CRITICAL))
+        p_sat = _saturation_pressure(np.where(low, T, T_LOW))
+        t_sat = _saturation_temperature(np.clip(P, P_TRIPLE, P_CRITICAL))
         near_sat = low & (P <= P_CRITICAL) & (np.abs(T - t_sat) <= 2 * m * t_sat)
         one = inside & low & (P > p_sat) & ~near_sat
         two = inside & ~near_sat & (
             (low & (P < p_sat))
-            | ((T > T_13 * (1 + m)) & (T < T_B23_HIGH) & (P < boundary_23_pressure(T) * (1 - m)))
+            | ((T > T_13 * (1 + m)) & (T < T_B23_HIGH) & (P < _boundary_23_pressure(T) * (1 - m)))
             | (T >= T_B23_HIGH))
     return np.where(one, 1, np.where(two, 2, 0))
 
 
-def flash_PT(P, T) -> Flash:
-    """States at arrays of pressure [Pa] and temperature [K] in regions 1 and 2.
-
-    Examples
-    --------
-    >>> st = flash_PT(np.array([40e5]), np.array([673.15]))
-    >>> bool(st.ok[0]), st.phase[0], round(float(st.h[0]) / 1e3, 3)
-    (True, 'gas', 3214.374)
-    """
+def _flash_PT(P, T) -> Flash:
+    """:func:`flash_PT` without the input boundary (arrays already checked)."""
     P, T = np.atleast_1d(np.asarray(P, dtype=float)), np.atleast_1d(np.asarray(T, dtype=float))
     out = Flash(len(P))
-    region = region_of(P, T)
+    region = _region_of(P, T)
     for number, equation in ((1, region1), (2, region2)):
         rows = np.flatnonzero(region == number)
         if len(rows):
             h, s, rho, cp = _blocks(equation, P[rows], T[rows])
             out.put(rows, T[rows], h, s, rho, cp, _phase_words(P[rows], T[rows], number == 1))
     return out
-
-
-def flash_Ph(P, h) -> Flash:
-    """States at arrays of pressure [Pa] and specific enthalpy [J/kg] (see :func:`flash_Ps`)."""
-    return _flash_from(P, h, "h")
-
-
-def flash_Ps(P, s) -> Flash:
-    """States at arrays of pressure [Pa] and specific entropy [J/(kg K)].
-
-    Inside the saturation dome: the lever rule between the saturated liquid (region 1) and
-    vapour (region 2) at the saturation temperature of the pressure; outside it: Newton
-    iteration on temperature with the forward equations of region 1 or 2 (to better than
-    1e-10 of the temperature, as the single-state API).  Pressures from the triple
-    point up to the saturation pressure at 623.15 K.
-
-    Examples
-    --------
-    >>> st = flash_Ps(np.array([5e5]), np.array([6500.0]))
-    >>> st.phase[0], round(float(st.x[0]), 4)
-    ('two-phase', 0.9354)
-    """
-    return _flash_from(P, s, "s")
 
 
 def _flash_from(P, target, prop):
@@ -471,7 +425,7 @@ class _Saturation:
 
     def __init__(self, P):
         self.P = P
-        self.T = saturation_temperature(P)
+        self.T = _saturation_temperature(P)
         self.vapour = _blocks(_region2, P, self.T)
         self._liquid = tuple(np.full(len(P), np.nan) for _ in range(6))
         self._known = np.zeros(len(P), dtype=bool)
@@ -529,7 +483,7 @@ def _newton(out, rows, P, target, t_sat, edge, prop, region):
             idx = np.flatnonzero(done)
             dT, Td = step[idx], Ta[idx]
             T_end = Td + dT
-            keep = region_of(P[d], T_end) == region
+            keep = _region_of(P[d], T_end) == region
             r, idx, dT, Td, T_end = d[keep], idx[keep], dT[keep], Td[keep], T_end[keep]
             c, dc = cp[idx], dcp[idx]
             h_end = h[idx] + dT * (c + 0.5 * dc * dT)
@@ -561,3 +515,118 @@ def _halley_step(state, T, target, prop):
         newton = -f / slope
         factor = 1.0 + 0.5 * newton * curve / slope  # 1 - f f'' / (2 f'^2)
         return np.where((factor > 0.5) & (factor < 2.0), newton / factor, newton), slope
+
+
+def array_flash(pair: str, P, value) -> Flash:
+    """The flash of ``pair`` ("PT", "Ph" or "Ps") for the fluid's array flashes.
+
+    The arrays come as :meth:`workbench.properties.Fluid.states_PT` and its kin pass them
+    (through their own input boundary): NaN or infinite entries are simply not ``ok`` here.
+    """
+    with np.errstate(invalid="ignore", over="ignore"):
+        if pair == "PT":
+            return _flash_PT(P, value)
+        return _flash_from(P, value, pair[1])
+
+
+# ---- public entry points: arrays through the input boundary (workbench.units) ----------------
+def _checked(P, value, kind):
+    """Pressures [Pa] and a second array of ``kind`` as equal-length SI float arrays (NaN
+    allowed: an entry not settled); refuses text, infinities, huge magnitudes, unequal
+    lengths by name."""
+    P = to_si_array(P, "pressure", "pressure")
+    value = to_si_array(value, kind, kind.replace("_", " "))
+    if len(P) != len(value):
+        raise InputError(f"pressure and {kind.replace('_', ' ')} arrays need equal lengths, "
+                         f"not {len(P)} and {len(value)}")
+    return P, value
+
+
+def saturation_temperature(P):
+    """Saturation temperature [K] at arrays P [Pa] (IAPWS R7-97 eq. 31; NaN outside
+    611.213 Pa to the critical pressure).
+
+    Examples
+    --------
+    >>> round(float(saturation_temperature(np.array([10e6]))[0]), 6)  # table 35: 584.149488 K
+    584.149488
+    """
+    return _saturation_temperature(to_si_array(P, "pressure", "pressure"))
+
+
+def saturation_pressure(T):
+    """Saturation pressure [Pa] at arrays T [K] (IAPWS R7-97 eq. 30; NaN outside 273.15 K to
+    the critical temperature).
+
+    Examples
+    --------
+    >>> round(float(saturation_pressure(np.array([500.0]))[0]) / 1e6, 8)  # table 35
+    2.63889776
+    """
+    return _saturation_pressure(to_si_array(T, "temperature", "temperature"))
+
+
+def boundary_23_pressure(T):
+    """Pressure [Pa] of the boundary between regions 2 and 3 at T [K] (IAPWS R7-97 eq. 5).
+
+    Examples
+    --------
+    >>> round(float(boundary_23_pressure([623.15])[0]) / 1e6, 8)  # R7-97 section 4: 16.5291643
+    16.52916425
+    """
+    return _boundary_23_pressure(to_si_array(T, "temperature", "temperature"))
+
+
+def region_of(P, T):
+    """1 or 2 where (P [Pa], T [K]) lies clearly inside IF97 region 1 or 2, else 0.
+
+    Examples
+    --------
+    >>> region_of([3e6, 0.1e6, 25e6], [300.0, 500.0, 650.0]).tolist()
+    [1, 2, 0]
+    """
+    return _region_of(*_checked(P, T, "temperature"))
+
+
+def flash_PT(P, T) -> Flash:
+    """States at arrays of pressure [Pa] and temperature [K] in regions 1 and 2.
+
+    Entries outside them (or within :data:`BOUNDARY_MARGIN` of a boundary) are not ``ok``.
+
+    Examples
+    --------
+    >>> st = flash_PT(np.array([40e5]), np.array([673.15]))
+    >>> bool(st.ok[0]), st.phase[0], round(float(st.h[0]) / 1e3, 3)
+    (True, 'gas', 3214.374)
+    """
+    return _flash_PT(*_checked(P, T, "temperature"))
+
+
+def flash_Ph(P, h) -> Flash:
+    """States at arrays of pressure [Pa] and specific enthalpy [J/kg] (see :func:`flash_Ps`).
+
+    Examples
+    --------
+    >>> st = flash_Ph(np.array([5e5]), np.array([2.7e6]))
+    >>> st.phase[0], round(float(st.x[0]), 4)
+    ('two-phase', 0.9772)
+    """
+    return _flash_from(*_checked(P, h, "specific_enthalpy"), "h")
+
+
+def flash_Ps(P, s) -> Flash:
+    """States at arrays of pressure [Pa] and specific entropy [J/(kg K)].
+
+    Inside the saturation dome: the lever rule between the saturated liquid (region 1) and
+    vapour (region 2) at the saturation temperature of the pressure; outside it: Halley
+    iteration on temperature with the forward equations of region 1 or 2 (to better than
+    1e-10 of the temperature, as the single-state API).  Pressures from the triple point up
+    to the saturation pressure at 623.15 K; other entries are not ``ok``.
+
+    Examples
+    --------
+    >>> st = flash_Ps(np.array([5e5]), np.array([6500.0]))
+    >>> st.phase[0], round(float(st.x[0]), 4)
+    ('two-phase', 0.9354)
+    """
+    return _flash_from(*_checked(P, s, "specific_entropy"), "s")

@@ -35,6 +35,9 @@ import threading
 
 import numpy as np
 
+from ..errors import InputError
+from ..units import choice, count, flag, positive
+
 #: Default tolerances of a table: largest absolute difference from the exact flash in specific
 #: enthalpy [J/kg] and entropy [J/(kg K)], largest relative difference in density and in
 #: isobaric heat capacity [-].
@@ -52,17 +55,22 @@ _M = np.array([[1.0, 0.0, 0.0, 0.0],
 
 
 class GasFlasher:
-    """Exact single-phase gas flashes of a mixture with the derivatives a table needs.
+    """Exact single-phase gas flashes of a fluid with the derivatives a table needs.
 
-    One phase-specified (gas) property-library state object, as the single-state API uses.
+    One phase-specified (gas) property-library state object, as the single-state API uses
+    for mixtures.  ``count`` is the number of flashes made.
     """
 
-    def __init__(self, components, fractions):
+    def __init__(self, fluid):
         import CoolProp
 
-        self.state = CoolProp.AbstractState("HEOS", "&".join(components))
-        if len(components) > 1:
-            self.state.set_mole_fractions(list(fractions))
+        from .fluid import Fluid
+
+        if not isinstance(fluid, Fluid) or fluid.backend != "HEOS":
+            raise InputError(f"a table needs a Fluid on the HEOS backend, not {fluid!r}")
+        self.state = CoolProp.AbstractState("HEOS", "&".join(fluid.components))
+        if fluid.is_mixture:
+            self.state.set_mole_fractions(list(fluid.fractions))
         self.state.specify_phase(CoolProp.iphase_gas)
         self.count = 0
 
@@ -264,8 +272,17 @@ def build_table(flasher, P_range, T_range, tolerance=None, *, start=START_NODES,
     estimate uses the nodes already flashed.  Whether the table is usable is decided only by
     the exact flashes at the cell centres.
     """
-    tolerance = {**TOLERANCE, **(tolerance or {})}
-    (p0, p1), (t0, t1) = P_range, T_range
+    tolerance = checked_tolerance(tolerance)
+    (p0, p1), (t0, t1) = _box(P_range, T_range)
+    max_nodes = count(max_nodes, "max_nodes", low=3, high=1025)
+    try:
+        start_P, start_T = start
+    except (TypeError, ValueError):
+        raise InputError(f"start must be two whole numbers (nodes in P and T), not {start!r}"
+                         ) from None
+    start = (count(start_P, "start nodes in pressure", low=3, high=max_nodes),
+             count(start_T, "start nodes in temperature", low=3, high=max_nodes))
+    refine = flag(refine, "refine")
     x = np.linspace(math.log(p0), math.log(p1), start[0])
     T = np.linspace(t0, t1, start[1])
     X, TT = np.meshgrid(x, T, indexing="ij")
@@ -291,6 +308,42 @@ def build_table(flasher, P_range, T_range, tolerance=None, *, start=START_NODES,
             return table
         x, T, data = _refined(x, T, data, centre_data if (in_x and in_T) else None, in_x, in_T,
                               flasher)
+
+
+def checked_tolerance(tolerance) -> dict:
+    """Table tolerances: :data:`TOLERANCE` updated with the given positive values.
+
+    Examples
+    --------
+    >>> checked_tolerance({"h": 0.5})["h"]
+    0.5
+    """
+    if tolerance is None:
+        return dict(TOLERANCE)
+    if not isinstance(tolerance, dict):
+        raise InputError(f"tolerance must be a dict of {', '.join(TOLERANCE)}, not "
+                         f"{type(tolerance).__name__}")
+    kinds = {"h": "specific_enthalpy", "s": "specific_entropy", "rho": "dimensionless",
+             "cp": "dimensionless"}
+    found = dict(TOLERANCE)
+    for key, value in tolerance.items():
+        key = choice(key, tuple(TOLERANCE), "tolerance key")
+        found[key] = positive(value, kinds[key], f"tolerance of {key}")
+    return found
+
+
+def _box(P_range, T_range):
+    """The box's pressures [Pa] and temperatures [K], checked (positive, increasing)."""
+    try:
+        (p0, p1), (t0, t1) = P_range, T_range
+    except (TypeError, ValueError):
+        raise InputError("a table's box is (P_low, P_high), (T_low, T_high)") from None
+    p0, p1 = (positive(v, "pressure", "table pressure") for v in (p0, p1))
+    t0, t1 = (positive(v, "temperature", "table temperature") for v in (t0, t1))
+    if not (p1 > p0 and t1 > t0):
+        raise InputError(f"a table's box needs P_low < P_high and T_low < T_high, not "
+                         f"({p0:g}, {p1:g}) Pa and ({t0:g}, {t1:g}) K")
+    return (p0, p1), (t0, t1)
 
 
 def _table(x, T, data, tolerance):
@@ -374,7 +427,7 @@ def table_for(key, flasher_factory, P_range, T_range, tolerance=None, *,
         for table in _TABLES.get(key, ()):
             if (table.P_range[0] <= p0 and p1 <= table.P_range[1]
                     and table.T_range[0] <= t0 and t1 <= table.T_range[1]
-                    and (tolerance is None or table.tolerance == {**TOLERANCE, **tolerance})):
+                    and table.tolerance == checked_tolerance(tolerance)):
                 return table
         dx = 0.05 * (math.log(p1) - math.log(p0)) + 1e-3
         dT = 0.05 * (t1 - t0) + 0.05
