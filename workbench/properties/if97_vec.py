@@ -297,6 +297,10 @@ P_SAT_13 = 16.529164253e6
 #: Relative distance from a region boundary inside which a state is left to the single-state
 #: API (which applies the property library's own choice of region there).
 BOUNDARY_MARGIN = 1e-6
+#: Relative distance in temperature from the saturation line inside which a P-T state is left
+#: to the single-state API (the property library names the phase of states this close to
+#: saturation by its own rule).
+SATURATION_MARGIN = 1e-4
 
 
 def _blocks(function, P, T):
@@ -352,7 +356,7 @@ def _region_of(P, T):
         low = T < T_13 * (1 - m)
         p_sat = _saturation_pressure(np.where(low, T, T_LOW))
         t_sat = _saturation_temperature(np.clip(P, P_TRIPLE, P_CRITICAL))
-        near_sat = low & (P <= P_CRITICAL) & (np.abs(T - t_sat) <= 2 * m * t_sat)
+        near_sat = low & (P <= P_CRITICAL) & (np.abs(T - t_sat) <= SATURATION_MARGIN * t_sat)
         one = inside & low & (P > p_sat) & ~near_sat
         two = inside & ~near_sat & (
             (low & (P < p_sat))

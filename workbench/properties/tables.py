@@ -240,7 +240,7 @@ def measure_error(table: PropertyTable, flasher, P=None, T=None) -> dict:
 
 
 def build_table(flasher, P_range, T_range, tolerance=None, *, start=START_NODES,
-                max_nodes: int = MAX_NODES, refine: bool = True) -> PropertyTable:
+                max_nodes: int | None = None, refine: bool = True) -> PropertyTable:
     """Build a table over the box and refine it until its measured error is within tolerance.
 
     Parameters
@@ -253,8 +253,8 @@ def build_table(flasher, P_range, T_range, tolerance=None, *, start=START_NODES,
         Tolerances as :data:`TOLERANCE` (missing keys from it).
     start : tuple of int
         Nodes in pressure and in temperature of the first grid (odd numbers, at least 3).
-    max_nodes : int
-        The most nodes a side.
+    max_nodes : int, optional
+        The most nodes a side (default :data:`MAX_NODES`).
     refine : bool
         Halve the grid spacing while the measured error is above the tolerance (a test
         builds a coarse table without refinement to see the error check refuse it).
@@ -274,14 +274,15 @@ def build_table(flasher, P_range, T_range, tolerance=None, *, start=START_NODES,
     """
     tolerance = checked_tolerance(tolerance)
     (p0, p1), (t0, t1) = _box(P_range, T_range)
-    max_nodes = count(max_nodes, "max_nodes", low=3, high=1025)
+    max_nodes = count(MAX_NODES if max_nodes is None else max_nodes, "max_nodes", low=3,
+                      high=1025)
     try:
         start_P, start_T = start
     except (TypeError, ValueError):
         raise InputError(f"start must be two whole numbers (nodes in P and T), not {start!r}"
                          ) from None
-    start = (count(start_P, "start nodes in pressure", low=3, high=max_nodes),
-             count(start_T, "start nodes in temperature", low=3, high=max_nodes))
+    start = (min(count(start_P, "start nodes in pressure", low=3, high=1025), max_nodes),
+             min(count(start_T, "start nodes in temperature", low=3, high=1025), max_nodes))
     refine = flag(refine, "refine")
     x = np.linspace(math.log(p0), math.log(p1), start[0])
     T = np.linspace(t0, t1, start[1])
