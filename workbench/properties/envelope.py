@@ -87,7 +87,8 @@ class PhaseEnvelope:
         P = to_si_array(P, "pressure", "pressure")
         if not self.traced:
             return np.full(len(P), np.nan)
-        x = np.log(P)
+        with np.errstate(invalid="ignore", divide="ignore"):
+            x = np.where(P > 0, np.log(np.where(P > 0, P, 1.0)), np.nan)
         xs, ts = np.log(self.P), self.T
         edge = np.full(len(P), -np.inf)
         a, b = xs[:-1], xs[1:]
@@ -100,7 +101,7 @@ class PhaseEnvelope:
             w = 0.5 if span == 0 else (x[inside] - a[k]) / span
             t = ts[k] + w * (ts[k + 1] - ts[k])
             edge[inside] = np.maximum(edge[inside], t)
-        edge[x < xs.min()] = np.nan  # below the traced range: not known here
+        edge[~(x >= xs.min())] = np.nan  # below the traced range (or no pressure): unknown
         return edge
 
     def limit(self, P, dew_temperature=None, probes: int = 5,
