@@ -289,7 +289,7 @@ def dask_scaling(frame, machine, fluid, partitions):
     from distributed import Client, LocalCluster
 
     rates = {}
-    warm = gas_rows(200, seed=99)
+    warm = gas_rows(4_000, seed=99)
     for workers in (1, 2):
         with LocalCluster(n_workers=workers, threads_per_worker=1, processes=True,
                           dashboard_address=None) as cluster, Client(cluster) as client:
@@ -330,10 +330,10 @@ def main(argv=None):
     args = parser.parse_args(argv)
     if args.quick:
         n_steam, n_gas, n_dask, exact_steam, exact_gas, mc_subset = (
-            10_000, 1_000, 2_000, 2_000, 300, 100)
+            10_000, 1_000, 40_000, 2_000, 300, 100)
     else:
         n_steam, n_gas, n_dask, exact_steam, exact_gas, mc_subset = (
-            100_000, 10_000, 20_000, None, None, 300)
+            100_000, 10_000, 400_000, None, None, 300)
     steam = wb.Fluid("Water", backend="IF97")
     gas = wb.Fluid(GAS)
     found, t_mc, dask_ratio = {}, math.nan, None

@@ -135,16 +135,14 @@ def _powers(x, exponents):
     squares = {1: x}
     low = int(exponents[0])
     if low < 0:
-        base = 1.0 / x
-        squares_neg = {1: base}
-        current = _int_power(base, -low, squares_neg)
+        out[0] = _int_power(1.0 / x, -low, {1: 1.0 / x})
+    elif low:
+        out[0] = _int_power(x, low, squares)
     else:
-        current = _int_power(x, low, squares) if low else np.ones(len(x))
-    out[0] = current
+        out[0] = 1.0
     for k in range(1, len(exponents)):
         gap = int(exponents[k] - exponents[k - 1])
-        current = current * _int_power(x, gap, squares)
-        out[k] = current
+        np.multiply(out[k - 1], x if gap == 1 else _int_power(x, gap, squares), out=out[k])
     return out
 
 
@@ -370,10 +368,10 @@ def _flash_PT(P, T) -> Flash:
     P, T = np.atleast_1d(np.asarray(P, dtype=float)), np.atleast_1d(np.asarray(T, dtype=float))
     out = Flash(len(P))
     region = _region_of(P, T)
-    for number, equation in ((1, region1), (2, region2)):
+    for number, equation in ((1, _region1), (2, _region2)):
         rows = np.flatnonzero(region == number)
         if len(rows):
-            h, s, rho, cp = _blocks(equation, P[rows], T[rows])
+            h, s, rho, cp = _blocks(equation, P[rows], T[rows])[:4]
             out.put(rows, T[rows], h, s, rho, cp, _phase_words(P[rows], T[rows], number == 1))
     return out
 
