@@ -166,3 +166,44 @@ def test_compressor_similarity(key, value):
 def test_similarity_uncertainties(reading, b, s):
     _call(wb.compressor_similarity, COND, COND, diameter=0.4, width=0.022,
           uncertainties={reading: (b, s)})
+
+
+def _paths(obj, prefix=()):
+    if isinstance(obj, dict):
+        for k, v in obj.items():
+            yield prefix + (k,)
+            yield from _paths(v, prefix + (k,))
+    elif isinstance(obj, list):
+        for i, v in enumerate(obj[:3]):
+            yield prefix + (i,)
+            yield from _paths(v, prefix + (i,))
+
+
+DEMOS = {name: load for name, load in (
+    (n, __import__("workbench.curves", fromlist=["load_curves_demo"]).load_curves_demo(n))
+    for n in ("pump-loop-demo", "compressor-co2-shop-test-demo"))}
+PATHS = [(name, p) for name, data in DEMOS.items() for p in _paths(data)]
+json_values = st.recursive(
+    st.one_of(st.none(), st.booleans(), st.integers(-10 ** 20, 10 ** 400), st.text(max_size=5),
+              st.floats(allow_nan=False, allow_infinity=False)),
+    lambda inner: st.one_of(st.lists(inner, max_size=3),
+                            st.dictionaries(st.text(max_size=3), inner, max_size=3)),
+    max_leaves=6)
+
+
+@settings(max_examples=150, **SETTINGS)
+@given(where=st.sampled_from(PATHS), value=json_values)
+def test_case_files(where, value):
+    import copy
+
+    from workbench.curves import curves_report, evaluate_curves_case
+
+    name, path = where
+    data = copy.deepcopy(DEMOS[name])
+    target = data
+    for key in path[:-1]:
+        target = target[key]
+    target[path[-1]] = value
+    result = _call(evaluate_curves_case, data)
+    if result is not None:
+        assert "<svg" in curves_report(result)

@@ -81,10 +81,11 @@ def _section(data, name, allowed, required=()):
     unknown = sorted(str(k) for k in data if k not in allowed)
     if unknown:
         raise CaseFileError(f"{name}: unknown keys {', '.join(unknown)[:200]}")
-    missing = [k for k in required if k not in data]
+    given = {k: v for k, v in data.items() if v is not None}  # null: not given
+    missing = [k for k in required if k not in given]
     if missing:
         raise CaseFileError(f"{name} lacks {', '.join(missing)}")
-    return {k: v for k, v in data.items() if v is not None}
+    return given
 
 
 def _built(name, build):

@@ -400,6 +400,9 @@ def _predicted_discharge(inlet, head, eta, guess):
         return polytropic_outlet(inlet, P, eta)[1] - head
 
     lo, hi = inlet.P * 1.000001, max(guess, inlet.P * 1.01)
+    if miss(lo) >= 0:
+        raise ReadingsError(f"the converted polytropic head {head:.5g} J/kg is too small to "
+                            "predict a discharge pressure: check the test and specified speeds")
     for _ in range(40):
         if miss(hi) > 0:
             break
