@@ -143,7 +143,8 @@ def test_compressibility_and_mach_factor(args):
 
 
 SIM_ARGS = dict(diameter=0.4, width=0.022, test_type="2", method="schultz",
-                reynolds_correction=False, roughness=3.2e-6, limits=None, uncertainties=None)
+                reynolds_correction=False, roughness=3.2e-6, limits=None, uncertainties=None,
+                impellers=1)
 COND_FIELDS = ("inlet_pressure", "inlet_temperature", "discharge_pressure",
                "discharge_temperature", "volume_flow", "speed")
 
@@ -207,3 +208,35 @@ def test_case_files(where, value):
     result = _call(evaluate_curves_case, data)
     if result is not None:
         assert "<svg" in curves_report(result)
+
+
+@settings(max_examples=200, **SETTINGS)
+@given(which=st.sampled_from(["reynolds_factor", "mach_limits", "demo", "npsh", "throttle",
+                              "from_dict", "best", "write"]),
+       a=hostile, b=st.one_of(hostile, st.floats(0.0, 1e-3)), c=hostile)
+def test_helpers(which, a, b, c, tmp_path_factory):
+    from workbench.curves import load_curves_demo, write_curves_report
+    from workbench.curves.similarity import mach_number_limits, reynolds_factor
+
+    if which == "reynolds_factor":
+        _call(reynolds_factor, a, 0.02, b)
+    elif which == "mach_limits":
+        _call(mach_number_limits, a)
+    elif which == "demo":
+        _call(load_curves_demo, a)
+    elif which == "npsh":
+        _call(SYSTEM.npsh_available, a)
+    elif which == "throttle":
+        system = _call(SYSTEM.with_throttle, a, section=c if c is not None else 0)
+        if system is not None:
+            _call(system.head, 0.02)
+    elif which == "from_dict":
+        _call(wb.PerformanceCurve.from_dict, {**CURVE.to_dict(), "degree": a, "min_flow": c}
+              if isinstance(c, (int, float)) else a)
+    elif which == "best":
+        assert 0 <= CURVE.best_efficiency_flow() <= Q[-1]
+    else:
+        try:
+            write_curves_report(a, tmp_path_factory.mktemp("r") / "r.html")
+        except wb.WorkbenchError as exc:
+            assert str(exc)

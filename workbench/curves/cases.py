@@ -44,7 +44,7 @@ _ACCEPTANCE = {"test_flow", "test_head", "test_speed", "rated_speed", "guarantee
                "guarantee_head", "guarantee_efficiency", "guarantee_power", "test_power",
                "test_efficiency", "grade", "density", "specified_density", "fit", "degree"}
 _SIMILARITY = {"test", "specified", "diameter", "width", "test_type", "method",
-               "reynolds_correction", "roughness", "limits", "uncertainties"}
+               "reynolds_correction", "roughness", "limits", "uncertainties", "impellers"}
 
 
 @dataclass(frozen=True, eq=False)
