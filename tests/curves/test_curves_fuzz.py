@@ -212,11 +212,15 @@ def test_case_files(where, value):
 
 @settings(max_examples=200, **SETTINGS)
 @given(which=st.sampled_from(["reynolds_factor", "mach_limits", "demo", "npsh", "throttle",
-                              "from_dict", "best", "write"]),
+                              "from_dict", "best", "write", "groups"]),
        a=hostile, b=st.one_of(hostile, st.floats(0.0, 1e-3)), c=hostile)
 def test_helpers(which, a, b, c, tmp_path_factory):
     from workbench.curves import load_curves_demo, write_curves_report
-    from workbench.curves.similarity import mach_number_limits, reynolds_factor
+    from workbench.curves.similarity import (
+        mach_number_limits,
+        reynolds_factor,
+        similarity_groups,
+    )
 
     if which == "reynolds_factor":
         _call(reynolds_factor, a, 0.02, b)
@@ -233,6 +237,9 @@ def test_helpers(which, a, b, c, tmp_path_factory):
     elif which == "from_dict":
         _call(wb.PerformanceCurve.from_dict, {**CURVE.to_dict(), "degree": a, "min_flow": c}
               if isinstance(c, (int, float)) else a)
+    elif which == "groups":
+        _call(similarity_groups, COND, a, 0.02, impellers=c if c is not None else 1)
+        _call(similarity_groups, a, 0.4, 0.02)
     elif which == "best":
         assert 0 <= CURVE.best_efficiency_flow() <= Q[-1]
     else:

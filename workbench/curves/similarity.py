@@ -354,7 +354,27 @@ def _head_efficiency(condition, method):
 
 def similarity_groups(condition: CompressorCondition, diameter: float, width: float,
                       method: str = "schultz", impellers: int = 1) -> SimilarityGroups:
-    """PTC 10 groups and performance of one condition (SI floats already validated)."""
+    """PTC 10 groups and performance of one condition (module notes).
+
+    Parameters
+    ----------
+    condition : CompressorCondition or dict
+    diameter, width : float or Quantity
+        Impeller tip diameter and exit width [m].
+    method : {"schultz", "integration"}
+    impellers : int
+        Number of impellers of that tip diameter.
+
+    Returns
+    -------
+    SimilarityGroups
+    """
+    condition = _condition(condition, "condition")
+    diameter = to_si(diameter, "length", "impeller diameter", low=1e-3, high=20.0)
+    width = to_si(width, "length", "impeller width", low=1e-4, high=diameter / 2,
+                  high_open=True)
+    method = choice(method, ("schultz", "integration"), "polytropic method")
+    impellers = count(impellers, "number of impellers", low=1, high=20)
     inlet, discharge, m, head, eta = _head_efficiency(condition, method)
     omega = condition.speed
     r = diameter / 2
