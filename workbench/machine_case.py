@@ -222,10 +222,12 @@ def list_demo_cases() -> list[str]:
     """Names of the demo cases shipped in ``workbench/cases`` (without ``.json``)."""
     folder = resources.files("workbench") / "cases"
     try:
-        names = [p.name for p in folder.iterdir()]
+        files = [p for p in folder.iterdir() if p.name.endswith(".json")]
     except (FileNotFoundError, NotADirectoryError):
         return []
-    return sorted(n[:-5] for n in names if n.endswith(".json"))
+    # the folder also holds other kinds of case (curves cases): list machine cases only
+    return sorted(p.name[:-5] for p in files
+                  if f'"format": "{FORMAT_NAME}"' in p.read_text(encoding="utf-8")[:200])
 
 
 def load_demo_case(name: str) -> dict:
