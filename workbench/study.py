@@ -379,8 +379,8 @@ def machine_study(inputs: dict, cache: dict | None = None):
 
 
 #: Result fields of a machine study that are not attributes of the result: field name ->
-#: getter.  The pressure ratio is quoted high over low, so a turbine shows its expansion
-#: ratio (as the field's description in :data:`workbench.fields.FIELDS` says).
+#: getter.  (The result's own ``pressure_ratio`` is quoted higher over lower pressure, so a
+#: turbine shows its expansion ratio, as :data:`workbench.fields.FIELDS` says.)
 _DERIVED = {
     "outlet_pressure": lambda r: r.outlet.P,
     "outlet_temperature": lambda r: r.outlet.T,
@@ -388,7 +388,6 @@ _DERIVED = {
     "inlet_pressure": lambda r: r.inlet.P,
     "inlet_temperature": lambda r: r.inlet.T,
     "inlet_quality": lambda r: r.inlet.quality,
-    "pressure_ratio": lambda r: max(r.outlet.P, r.inlet.P) / min(r.outlet.P, r.inlet.P),
 }
 
 
