@@ -399,6 +399,7 @@ def cooler(inlet: State, mass_flow, outlet_temperature, *, pressure_drop=0.0,
         raise SpecificationError("give both cooling water temperatures (inlet and outlet) "
                                  "or neither")
     P2, dP = _outlet_pressure("cooler", inlet, pressure_drop)
+    Pw = checks.positive(cooling_water_pressure, "pressure", "cooling water pressure")
     if tw1 is not None:
         if not tw2 > tw1:
             raise InputError(f"cooling water outlet temperature {tw2:.6g} K must be above its "
@@ -412,7 +413,6 @@ def cooler(inlet: State, mass_flow, outlet_temperature, *, pressure_drop=0.0,
             raise InputError(f"cooling water outlet temperature {tw2:.6g} K must be below the "
                              f"cooler inlet temperature {inlet.T:.6g} K (hot end difference "
                              "above 0 K; zero needs an infinite exchanger area)")
-        Pw = checks.positive(cooling_water_pressure, "pressure", "cooling water pressure")
         water = _water()
         w_in, w_out = water.state_PT(Pw, tw1), water.state_PT(Pw, tw2)
     outlet = inlet.fluid.state_PT(P2, T2)

@@ -263,7 +263,8 @@ def splitter(inlet: State, mass_flow, *, fractions=None, branch_mass_flows=None)
     given = _listed(given, f"the splitter {what} must be a list with one value per branch")
     values = [None if v is None else flow_of(i, v, m) for i, v in enumerate(given, start=1)]
     if len(values) < 2:
-        raise InputError(f"a splitter needs at least 2 branches, got {len(values)}")
+        raise InputError(f"the splitter {what} list {len(values)} value(s): a splitter needs "
+                         "at least 2 branches")
     missing = [i for i, v in enumerate(values) if v is None]
     if len(missing) > 1:
         raise SpecificationError(f"{len(missing)} {what} are missing; at most one can be left "
