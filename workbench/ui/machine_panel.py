@@ -515,7 +515,7 @@ class MachinePanel(Panel):
             return False
         result, self._values = got
         self.show_result(result, self._ok_text(result), cautions=result.cautions)
-        self._show_results()
+        self._show_results(states=False)  # show_result drew the states table already
         self._draw_charts()
         return True
 
@@ -567,8 +567,9 @@ class MachinePanel(Panel):
         for name in OPTIONAL:
             self.entries[name].label.style.text_color = None if name in used else "#9a9a9a"
 
-    def _show_results(self):
-        self._show_usage()
+    def _show_results(self, states: bool = True):
+        if states:
+            self._show_usage()
         if self.result is None:
             self.results.clear()
         else:
@@ -576,7 +577,8 @@ class MachinePanel(Panel):
             notes = {} if outlet.two_phase else {
                 "outlet_quality": f"– ({outlet.phase or 'one phase'})"}
             self.results.show(self._values, self.system, self.ambient, notes)
-        self._show_states()
+        if states:
+            self._show_states()
 
     def _show_states(self):
         self.states_html.value = "" if self.result is None else states_table(
