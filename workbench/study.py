@@ -572,9 +572,6 @@ def process_series(result, path_steps: int = 12, dome_points: int = 40,
     }
 
 
-__all__ = ["DEFAULT_INPUTS", "SWEEP_INPUTS", "SWEEP_VARIABLES", "SweepResult", "normalise_composition", "pure_fluid_names",
-           "machine_study", "make_fluid", "mass_flow_from_case", "process_series",
-           "result_values", "sweep", "sweep_values", "validate_inputs"]
 
 
 def pure_fluid_names() -> list[str]:
@@ -587,3 +584,9 @@ def normalise_composition(composition: dict) -> dict:
     from .properties import normalise_fractions
 
     return normalise_fractions(dict(composition))
+
+
+__all__ = ["DEFAULT_INPUTS", "INPUT_CHECKS", "SWEEP_INPUTS", "SWEEP_VARIABLES", "SweepResult",
+           "machine_study", "make_fluid", "mass_flow_from_case", "normalise_composition",
+           "process_series", "pure_fluid_names", "result_values", "sweep", "sweep_values",
+           "validate_inputs"]
