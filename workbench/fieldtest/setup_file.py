@@ -42,7 +42,7 @@ from contextlib import contextmanager
 
 from .. import units
 from ..errors import CaseFileError, InputError
-from ..machine_case import parse_case_json, read_case_text
+from ..machine_case import read_json_source
 from .readers import READING_KINDS, convert_values, parse_unit
 
 FORMAT_NAME = "turbo-workbench field-test setup"
@@ -348,12 +348,11 @@ def read_setup(source, file_columns=None, file_name: str = "") -> dict:
     """Read and validate a setup from a dict, a JSON text or bytes, or a :class:`pathlib.Path`.
 
     A ``str`` is always the JSON text itself, never opened as a file name.  The text is
-    parsed by the project's safe JSON reader (:func:`workbench.machine_case.parse_case_json`:
-    size, nesting depth, NaN and Infinity checked).  Returns the result of
+    parsed by the project's one safe JSON reader (:func:`workbench.casefiles.read_json`:
+    size, nesting depth, huge integers, NaN and Infinity checked).  Returns the result of
     :func:`validate_setup` (``file_columns`` and ``file_name`` are passed on).
     """
-    data = source if isinstance(source, dict) else parse_case_json(read_case_text(source),
-                                                                    "setup")
+    data = source if isinstance(source, dict) else read_json_source(source, "setup")
     return validate_setup(data, file_columns, file_name)
 
 
