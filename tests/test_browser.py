@@ -4,8 +4,9 @@ Starts ``workbench serve`` on a free port (fixture ``served_dashboards`` in conf
 opens the compressor dashboard, changes the measured outlet temperature and checks that
 the efficiency follows, types an impossible inlet pressure and checks that the message
 names the pressure while the last good result stays shown; then opens the turbine
-dashboard and reads its power; then opens the test-data dashboard, checks the demo file's
-table colours and the plotly chart, and types a negative steady-state tolerance.  Skipped
+dashboard and reads its power; then opens the test-data (readings) dashboard, checks the demo
+file's table colours and the plotly chart, types a negative steady-state tolerance, switches a
+column's unit, and uploads a broken file.  Skipped
 without Chromium unless WORKBENCH_REQUIRE_BROWSER=1.  With WORKBENCH_UPDATE_SCREENSHOTS=1 the
 test-data screenshot is also written to docs/screenshots/test-data.png.
 """
@@ -177,3 +178,37 @@ def test_test_data_dashboard_shows_table_chart_and_reports_a_bad_tolerance(
     commit_entry(page, "tolerance-outlet-temperature", "0.2")
     page.wait_for_function(f"() => ({unsteady_points})() > {before}", timeout=UPDATE_TIMEOUT)
     assert page.locator(".wb-result-summary .wb-fresh").count() == 1
+
+
+def test_test_data_dashboard_unit_switch_and_broken_file(served_dashboards, page,
+                                                         screenshots):
+    page.goto(served_dashboards + "/voila/render/test-data.ipynb",
+              timeout=FIRST_RESULT_TIMEOUT)
+    summary = wait_for_number(page, ".wb-result-summary")
+    assert "300 rows" in summary
+    # unit switch of a mapped column: a typed tolerance keeps its size in the new unit
+    # (0.2 bar = 2.90075 psi; NIST SP 811: 1 psi = 6894.757 Pa)
+    commit_entry(page, "tolerance-inlet-pressure", "0.2")
+    page.locator(".wb-input-unit-inlet-pressure select").first.select_option("psig")
+    page.wait_for_function(
+        "() => { const e = document.querySelector('.wb-input-tolerance-inlet-pressure input');"
+        " return e && Math.abs(parseFloat(e.value) - 2.90075) < 1e-4; }",
+        timeout=UPDATE_TIMEOUT)
+    unit = page.eval_on_selector(".wb-input-tolerance-inlet-pressure",
+                                 "e => e.parentElement.innerText")
+    assert unit.strip() == "psi"
+    # a broken file (binary junk named .csv): the message names it, the last good table
+    # stays with its summary marked stale; no upload reaches a parser unchecked
+    page.locator(".wb-input-file input[type=file]").first.set_input_files(files=[{
+        "name": "logger-dump.csv", "mimeType": "text/csv",
+        "buffer": bytes(range(256)) * 40}])
+    page.wait_for_function(
+        "() => { const e = document.querySelector('.wb-message');"
+        " return e && /logger-dump.csv/.test(e.innerText); }", timeout=UPDATE_TIMEOUT)
+    message = text_of(page, ".wb-message")
+    assert "not a text (CSV) file" in message
+    assert page.locator(".wb-result-table tr.wb-row-flagged").count() == 6
+    assert page.locator(".wb-result-summary .wb-stale").count() == 1
+    assert page.locator(".wb-result-progress").count() == 1  # present, hidden when idle
+    assert not page.locator(".wb-result-progress").first.is_visible()
+    page.screenshot(path=str(screenshots / "test-data-broken-file.png"), full_page=True)

@@ -345,3 +345,27 @@ def test_a_large_file_shows_a_progress_bar(monkeypatch):
     assert values[-1] == 100 and values == sorted(values) and len(values) >= 3
     assert all(display is None for _, display in seen)  # shown while it moved
     assert panel.progress.layout.display == "none"  # hidden when done
+
+
+def test_readings_ui_modules_import_no_property_library_and_build_no_states():
+    # layer rule of the project (DESIGN.md): a panel binds widgets to the session below ui
+    import ast
+    import pathlib
+
+    import workbench.ui as ui
+
+    folder = pathlib.Path(ui.__file__).parent
+    for path in sorted(folder.glob("readings_*.py")):
+        tree = ast.parse(path.read_text(encoding="utf-8"))
+        for node in ast.walk(tree):
+            if isinstance(node, ast.Import):
+                assert not any(a.name.split(".")[0] == "CoolProp" for a in node.names), path
+            elif isinstance(node, ast.ImportFrom):
+                module = node.module or ""
+                assert module.split(".")[0] != "CoolProp", path
+                assert "fluids" not in module.split("."), (path, module)
+                assert "properties" not in module.split("."), (path, module)
+            elif isinstance(node, ast.Attribute):
+                assert node.attr not in ("state", "states_PT", "states_Ph", "states_Ps",
+                                         "propagate_uncertainty", "steady_state_flags",
+                                         "compare_with_design"), (path, node.attr)
