@@ -59,14 +59,14 @@ def test_two_stage_optimum_shown_at_geometric_mean(panel):
     panel.set_input("cooler-pressure-drop", 0.0)
     panel.set_input("knockout-pressure-drop", 0.0)
     assert panel.message.value == ""
-    r1, r2 = (float(v) for v in panel.results["stage-ratios"].shown.split(","))
+    r1, r2 = (float(v) for v in panel.results["stage-pressure-ratios"].shown.split(","))
     assert r1 == pytest.approx(3.0, rel=5e-3) and r2 == pytest.approx(3.0, rel=5e-3)
     # Same inputs straight into the library give the power shown (kW, 5 digits).
     air = Fluid("Air")
     direct = intercooled_compressor(air.state_PT(1e5, 298.15), 1.5, P_out=9e5, stages=2,
                                     isentropic_efficiency=1.0, cooler_outlet_temperature=298.15,
                                     stage_ratios="optimal")
-    assert number(panel.results["total-power"].shown) == pytest.approx(
+    assert number(panel.results["total-shaft-power"].shown) == pytest.approx(
         direct.total_power / 1e3, rel=1e-4)
     bars, line, _branches = panel.chart.data
     assert len(bars.y) == 2
@@ -83,29 +83,29 @@ def test_turbine_exhaust_matches_if97(panel):
     h2 = h1 - 0.78 * (h1 - IAPWS97(P=1.2, s=s1).h)
     h3 = h2 - 0.75 * (h2 - IAPWS97(P=0.4, s=IAPWS97(P=1.2, h=h2).s).h)
     power = 12.0 * (h1 - h2) + 8.0 * (h2 - h3)  # kW
-    assert number(panel.results["total-power"].shown) == pytest.approx(power, rel=1e-4)
+    assert number(panel.results["total-shaft-power"].shown) == pytest.approx(power, rel=1e-4)
     t3 = IAPWS97(P=0.4, h=h3).T - 273.15
     assert number(panel.results["outlet-temperature"].shown) == pytest.approx(t3, abs=0.01)
 
 
 def test_unit_switch_keeps_si_values(panel):
     # 1 psi = 6894.757 Pa, 1 hp (mechanical) = 745.6999 W (NIST SP 811).
-    kw = number(panel.results["total-power"].shown)
+    kw = number(panel.results["total-shaft-power"].shown)
     panel.units.value = "psig, degF"
     # shown to five significant figures
     assert panel.entries["discharge-pressure"].value == pytest.approx(9e5 / 6894.757, rel=5e-5)
-    assert number(panel.results["total-power"].shown) == pytest.approx(kw * 1e3 / 745.6999,
+    assert number(panel.results["total-shaft-power"].shown) == pytest.approx(kw * 1e3 / 745.6999,
                                                                       rel=1e-4)
     assert panel.si("discharge-pressure") == pytest.approx(9e5)
     assert "psia" in panel.stations.value
 
 
 def test_bad_input_shows_message_and_keeps_last_result(panel):
-    shown = panel.results["total-power"].shown
+    shown = panel.results["total-shaft-power"].shown
     panel.set_input("cooler-outlet-temperature", 400.0)  # degC, hotter than any discharge
     assert "cooler outlet temperature" in panel.message.value
     assert panel.stale
-    assert panel.results["total-power"].shown == shown
+    assert panel.results["total-shaft-power"].shown == shown
     panel.set_input("cooler-outlet-temperature", 35.0)
     assert panel.message.value == "" and not panel.stale
 
@@ -116,7 +116,7 @@ def test_turbine_stage_ratios_quoted_high_over_low(panel):
     # section shows 38/12 and the LP section 12/4 (plain arithmetic on the entries).
     panel.scenario.value = "extraction turbine"
     assert panel.message.value == ""
-    hp, lp = (float(v) for v in panel.results["stage-ratios"].shown.split(","))
+    hp, lp = (float(v) for v in panel.results["stage-pressure-ratios"].shown.split(","))
     assert hp == pytest.approx(38.0 / 12.0, rel=1e-3)
     assert lp == pytest.approx(12.0 / 4.0, rel=1e-3)
     # The h-s chart follows the stations: five main-line points (inlet and the outlets of the

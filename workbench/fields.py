@@ -153,6 +153,13 @@ FIELDS: dict[str, ResultField] = {f.name: f for f in (
     # devices and trains
     _f("heat_flow", "heat_flow", "heat flow", "Heat transferred."),
     _f("pressure_drop", "pressure", "pressure drop", "Static pressure loss."),
+    # train totals (train panel)
+    _f("total_shaft_power", "power", "total shaft power",
+       "Shaft power of every stage or section of a train, a positive magnitude."),
+    _f("heat_removed", "heat_flow", "heat removed by coolers",
+       "Heat removed from the gas by the train's coolers."),
+    _f("stage_pressure_ratios", "dimensionless", "stage pressure ratios",
+       "Pressure ratio of each stage or section, higher over lower pressure.", ".4g"),
 )}
 
 

@@ -394,7 +394,7 @@ class ResultField(widgets.HBox):
         return html.unescape(self.text.value)
 
     def set_stale(self, stale: bool):
-        self.text.style.text_color = "#8a8a8a" if stale else None
+        self.text.style.text_color = STALE_COLOUR if stale else None
 
 
 def unit_switch(value: str = "bar, degC") -> widgets.Dropdown:
@@ -611,6 +611,10 @@ class ResultRows(widgets.VBox):
     def shown(self, name: str) -> str:
         """Text shown in row ``name`` (field name or hook name)."""
         return self.rows[hook(name)].shown
+
+    def __getitem__(self, name: str) -> ResultField:
+        """The row of a field (field name or hook name)."""
+        return self.rows[hook(name)]
 
 
 def hook(name: str) -> str:
