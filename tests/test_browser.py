@@ -199,9 +199,11 @@ def test_test_data_dashboard_unit_switch_and_broken_file(served_dashboards, page
     assert unit.strip() == "psi"
     # a broken file (binary junk named .csv): the message names it, the last good table
     # stays with its summary marked stale; no upload reaches a parser unchecked
-    page.locator(".wb-input-file input[type=file]").first.set_input_files(files=[{
-        "name": "logger-dump.csv", "mimeType": "text/csv",
-        "buffer": bytes(range(256)) * 40}])
+    # (the upload button opens a file chooser from an input outside the page's DOM)
+    with page.expect_file_chooser(timeout=UPDATE_TIMEOUT) as chooser:
+        page.locator(".wb-input-file").first.click()
+    chooser.value.set_files(files=[{"name": "logger-dump.csv", "mimeType": "text/csv",
+                                    "buffer": bytes(range(256)) * 40}])
     page.wait_for_function(
         "() => { const e = document.querySelector('.wb-message');"
         " return e && /logger-dump.csv/.test(e.innerText); }", timeout=UPDATE_TIMEOUT)

@@ -305,6 +305,7 @@ def test_a_broken_file_keeps_the_last_table_marked_stale():
         panel.upload.value = upload_value(name, content)  # no exception may escape
         assert words in panel.message.text and name in panel.message.text
         assert panel.message.level == "error"
+        assert panel.upload.value == ()  # cleared: the same file can be chosen again
         assert panel.table.value == table and panel.results is results
         assert "wb-stale" in panel.summary.value
     # the last good file is still loaded: evaluating again refreshes the same results

@@ -336,8 +336,13 @@ class ReadingsPanel(Panel):
         value = change["new"]
         if not value:
             return
-        item = value[0] if isinstance(value, (tuple, list)) else next(iter(value.values()))
-        self.load(item.get("name", "readings.csv"), item["content"])
+        try:
+            item = value[0] if isinstance(value, (tuple, list)) else next(iter(value.values()))
+            self.load(item.get("name", "readings.csv"), item["content"])
+        finally:
+            with self.quiet():
+                self.upload.value = ()  # the bytes are not kept twice; the same file can
+                # be chosen again
 
     def load(self, file_name: str, content: bytes) -> bool:
         """Load a file's bytes; the column choices become the file's headers.
