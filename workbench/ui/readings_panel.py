@@ -64,7 +64,7 @@ from ..fieldtest.setup_file import (
 )
 from . import readings_view as view
 from .charts import figure_view, refresh_view
-from .common import NumberEntry, Panel, download_link
+from .common import NumberEntry, Panel, download_link, input_class, result_class
 from .readings_chart import make_readings_figure, update_readings_figure
 from .readings_entries import (
     LABELS,
@@ -148,14 +148,14 @@ class ReadingsPanel(Panel):
     def _build(self, machine, fluid, backend, ambient_pressure, mechanical_efficiency, design):
         self.upload = widgets.FileUpload(accept=".csv,.txt,.xlsx,.xlsm", multiple=False,
                                          description="Readings file")
-        self.upload.add_class("wb-input-file")
+        input_class(self.upload, "file")
         self.upload.observe(self.guard(self._uploaded, "the upload could not be read: "),
                             names="value")
         self.machine = dropdown("machine", "", MACHINES, machine, "150px", "0px")
         self.fluid = widgets.Text(value=fluid, description="Fluid",
                                   layout=widgets.Layout(width="760px"),
                                   style={"description_width": "170px"})
-        self.fluid.add_class("wb-input-fluid")
+        input_class(self.fluid, "fluid")
         self.backend = dropdown("backend", "", PROPERTY_MODELS, backend, "150px", "0px")
         self.ambient = NumberEntry("ambient-pressure", "Ambient pressure", "absolute_pressure",
                                    ambient_pressure, system=_SYSTEM)
@@ -176,29 +176,29 @@ class ReadingsPanel(Panel):
         self.steady_window = widgets.IntText(
             value=STEADY_WINDOW, description="Steady window (rows)", continuous_update=False,
             style={"description_width": "170px"}, layout=widgets.Layout(width="260px"))
-        self.steady_window.add_class("wb-input-steady-window")
+        input_class(self.steady_window, "steady-window")
         self.steady_window.observe(self.guard(lambda _change: self._steady_changed()),
                                    names="value")
         self._build_uncertainty_and_design(design)
         self.run = widgets.Button(description="Evaluate all rows", button_style="primary",
                                   layout=widgets.Layout(width="200px", margin="8px 0 4px 0"))
-        self.run.add_class("wb-input-evaluate")
+        input_class(self.run, "evaluate")
         self.run.on_click(self.guard(lambda _: self.evaluate()))
         self.progress = widgets.IntProgress(value=0, min=0, max=100, description="Evaluating",
                                             layout=widgets.Layout(width="400px",
                                                                   display="none"))
-        self.progress.add_class("wb-result-progress")
+        result_class(self.progress, "progress")
         self.summary = widgets.HTML("No readings yet.", layout=widgets.Layout(width="100%"))
-        self.summary.add_class("wb-result-summary")
+        result_class(self.summary, "summary")
         self.table = widgets.HTML("", layout=widgets.Layout(max_height="460px",
                                                             overflow="auto", width="100%"))
-        self.table.add_class("wb-result-table")
+        result_class(self.table, "table")
         self.export = widgets.HTML("")
-        self.export.add_class("wb-result-export")
+        result_class(self.export, "export")
         #: The charts: one FigureWidget, two subplots, traces updated in place.
         self.figure = make_readings_figure()
         self.figure_view = figure_view(self.figure)
-        self.figure_view.add_class("wb-result-figure")
+        result_class(self.figure_view, "figure")
         self.title = widgets.HTML(view.title_html(""))
         header = widgets.HBox([self.title, self.upload], layout=widgets.Layout(
             justify_content="space-between", align_items="center", width="100%"))
@@ -259,15 +259,15 @@ class ReadingsPanel(Panel):
     def _setup_tab(self):
         self.setup_upload = widgets.FileUpload(accept=".json", multiple=False,
                                                description="Load setup")
-        self.setup_upload.add_class("wb-input-setup-upload")
+        input_class(self.setup_upload, "setup-upload")
         self.setup_upload.observe(self._setup_uploaded, names="value")  # guarded inside
         self.setup_save = widgets.Button(description="Prepare setup download",
                                          layout=widgets.Layout(width="200px"))
-        self.setup_save.add_class("wb-input-setup-save")
+        input_class(self.setup_save, "setup-save")
         self.setup_save.on_click(self.guard(lambda _b: self._refresh_setup_link(),
                                             "setup not saved: "))
         self.setup_link = widgets.HTML("")
-        self.setup_link.add_class("wb-result-setup-link")
+        result_class(self.setup_link, "setup-link")
         return widgets.VBox([
             note("Save the whole setup of this page (column map and units, steady-state "
                  "window and tolerances, machine, fluid, ambient pressure, instrument "
