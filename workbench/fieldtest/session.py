@@ -217,6 +217,12 @@ def default_tolerance(raw: pd.DataFrame, column: str, unit: str, name: str,
     -------
     float
         The tolerance, a difference in ``unit`` (0 when the column holds no number).
+
+    Examples
+    --------
+    >>> raw = pd.DataFrame({"p1": ["18.9", "19.1", "19.0"]})
+    >>> default_tolerance(raw, "p1", "bar(a)", "inlet_pressure")
+    0.19
     """
     kind = READING_KINDS[name][0]
     per_unit = difference_to_si(1.0, unit, kind, name)
@@ -250,6 +256,11 @@ def tolerances_to_si(typed: dict, unit_texts: dict) -> dict:
     InputError
         Naming the reading and the value as typed, with its unit, when it is negative or not
         a finite number.
+
+    Examples
+    --------
+    >>> tolerances_to_si({"inlet_pressure": 0.2}, {"inlet_pressure": "bar(g)"})
+    {'inlet_pressure': 20000.0}
     """
     out = {}
     for name, value in typed.items():
@@ -626,7 +637,7 @@ def evaluate_session(raw: pd.DataFrame, setup: SessionSetup, *, progress=None) -
     ...                        "mass_flow": 0.02})
     >>> result = evaluate_session(raw, setup)
     >>> round(result.summary()["mean_isentropic_efficiency"], 3)
-    0.926
+    0.916
     """
     if not isinstance(setup, SessionSetup):
         raise InputError(f"setup must be a SessionSetup, not {type(setup).__name__}")
