@@ -224,7 +224,12 @@ def default_tolerance(raw: pd.DataFrame, column: str, unit: str, name: str,
     >>> default_tolerance(raw, "p1", "bar(a)", "inlet_pressure")
     0.19
     """
-    kind = READING_KINDS[name][0]
+    kind, unit = _reading_and_unit(name, unit)
+    if not isinstance(raw, pd.DataFrame) or not isinstance(column, str) or \
+            column not in raw.columns:
+        raise InputError(f"column {column!r} of the {name.replace('_', ' ')} is not in the "
+                         "readings file")
+    ambient_pressure = units.positive(ambient_pressure, "pressure", "ambient pressure")
     per_unit = difference_to_si(1.0, unit, kind, name)
     if kind == "temperature":
         return _two_digits(STEADY_DEFAULTS["temperature"] / per_unit)
@@ -262,17 +267,27 @@ def tolerances_to_si(typed: dict, unit_texts: dict) -> dict:
     >>> tolerances_to_si({"inlet_pressure": 0.2}, {"inlet_pressure": "bar(g)"})
     {'inlet_pressure': 20000.0}
     """
+    typed = _mapping(typed, "steady-state tolerances")
+    unit_texts = _mapping(unit_texts, "units of the tolerances")
     out = {}
     for name, value in typed.items():
-        kind = READING_KINDS[name][0]
-        shown = setup_file.tolerance_unit(unit_texts[name], kind)
+        kind, unit = _reading_and_unit(name, unit_texts.get(name))
+        shown = setup_file.tolerance_unit(unit, kind)
         label = f"steady-state tolerance of the {name.replace('_', ' ')} [{shown}]"
         if isinstance(value, (int, float)) and not isinstance(value, bool) and value < 0:
             raise InputError(f"steady-state tolerance {value:g} {shown} of the "
                              f"{name.replace('_', ' ')} must be zero or positive")
         value = units.not_negative(value, "dimensionless", label)
-        out[name] = difference_to_si(value, unit_texts[name], kind, name)
+        out[name] = difference_to_si(value, unit, kind, name)
     return out
+
+
+def _reading_and_unit(name, unit) -> tuple[str, str]:
+    """(kind, unit) of a reading name and the unit text of its column, both checked."""
+    name = units.choice(name, READING_KINDS, "reading name")
+    kind = READING_KINDS[name][0]
+    return kind, units.choice(unit, UNIT_CHOICES[kind],
+                              f"unit of the {name.replace('_', ' ')} column")
 
 
 def _two_digits(value: float) -> float:
@@ -348,12 +363,12 @@ class SessionSetup:
             high=setup_file.MAX_WINDOW))
         check(self, "column_map", _mapping(self.column_map, "column map"))
         check(self, "units", _mapping(self.units, "units"))
+        check(self, "steady_tolerances", _mapping(self.steady_tolerances,
+                                                  "steady-state tolerances"))
         for name, column in self.column_map.items():
             units.choice(name, READING_KINDS, "reading name of the column map")
             units.text(column, f"column of the {name.replace('_', ' ')}", max_length=1000)
-            kind = READING_KINDS[name][0]
-            units.choice(self.units.get(name), UNIT_CHOICES[kind],
-                         f"unit of the {name.replace('_', ' ')} column")
+            _reading_and_unit(name, self.units.get(name))
         check(self, "steady_tolerances", {
             name: units.not_negative(self.steady_tolerances.get(name), "dimensionless",
                                      f"steady-state tolerance of the {name.replace('_', ' ')}")
