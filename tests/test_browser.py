@@ -208,7 +208,7 @@ def test_test_data_dashboard_unit_switch_and_broken_file(served_dashboards, page
         "() => { const e = document.querySelector('.wb-message');"
         " return e && /logger-dump.csv/.test(e.innerText); }", timeout=UPDATE_TIMEOUT)
     message = text_of(page, ".wb-message")
-    assert "not a text (CSV) file" in message
+    assert "binary data" in message
     assert page.locator(".wb-result-table tr.wb-row-flagged").count() == 6
     assert page.locator(".wb-result-summary .wb-stale").count() == 1
     assert page.locator(".wb-result-progress").count() == 1  # present, hidden when idle

@@ -298,10 +298,10 @@ def test_a_broken_file_keeps_the_last_table_marked_stale():
     panel = ReadingsPanel.demo()
     table, results = panel.table.value, panel.results
     for name, content, words in (
-            ("junk.csv", b"\x00\x9f\x12" * 50, "not a text (CSV) file"),
-            ("cut.xlsx", b"PK\x03\x04 truncated", "could not be read as an Excel workbook"),
+            ("junk.csv", b"\x00\x9f\x12" * 50, "binary data"),
+            ("cut.xlsx", b"PK\x03\x04 truncated", "Excel workbook"),
             ("empty.csv", b"", "is empty"),
-            ("header.csv", b"a,b,c\n", "no rows")):
+            ("header.csv", b"a,b,c\n", "header row but no readings")):
         panel.upload.value = upload_value(name, content)  # no exception may escape
         assert words in panel.message.text and name in panel.message.text
         assert panel.message.level == "error"
