@@ -4,7 +4,9 @@ Starts ``workbench serve`` on a free port (fixture ``served_dashboards`` in conf
 opens the compressor dashboard, changes the measured outlet temperature and checks that
 the efficiency follows, types an impossible inlet pressure and checks that the message
 names the pressure while the last good result stays shown; then opens the turbine
-dashboard and reads its power; then opens the test-data (readings) dashboard, checks the demo
+dashboard and reads its power; switches the compressor dashboard's units, loads a broken
+case file (message, result kept) and counts the safety caution; reads the train
+dashboard's total shaft power; then opens the test-data (readings) dashboard, checks the demo
 file's table colours and the plotly chart, types a negative steady-state tolerance, switches a
 column's unit, and uploads a broken file.  Skipped
 without Chromium unless WORKBENCH_REQUIRE_BROWSER=1.  With WORKBENCH_UPDATE_SCREENSHOTS=1 the
@@ -118,6 +120,48 @@ def test_turbine_dashboard_shows_power(served_dashboards, page, screenshots):
     # a turbine delivers power: a positive magnitude (project sign convention, DESIGN.md)
     assert number_in(power) > 0
     page.screenshot(path=str(screenshots / "turbine.png"), full_page=True)
+
+
+def test_compressor_dashboard_unit_switch_broken_case_file_and_one_caution(
+        served_dashboards, page, screenshots):
+    page.goto(served_dashboards + "/voila/render/compressor.ipynb",
+              timeout=FIRST_RESULT_TIMEOUT)
+    power = ".wb-result-power"
+    first = wait_for_number(page, power)
+    # the safety caution is shown once (DESIGN.md, "Safety"), not repeated per result
+    assert page.locator(".wb-caution").count() == 1
+    # bar -> psi: 1 psi = 6894.757 Pa, 1 bar = 14.503774 psi (NIST SP 811)
+    bar = entry_value(page, "inlet-pressure")
+    page.select_option(".wb-input-unit-system select", "US customary")
+    page.wait_for_function(
+        "v => { const e = document.querySelector('.wb-input-inlet-pressure input');"
+        " return e && Math.abs(parseFloat(e.value) - v) < 0.01; }",
+        arg=round(bar * 1e5 / 6894.757, 2), timeout=UPDATE_TIMEOUT)
+    shown = wait_for_change(page, power, first)
+    assert "hp" in shown  # US customary power unit
+    # a broken case file: the message says so and the result stays
+    page.locator(".wb-tabs .lm-TabBar-tab, .wb-tabs .p-TabBar-tab",
+                 has_text="case file").first.click()
+    with page.expect_file_chooser(timeout=UPDATE_TIMEOUT) as chooser:
+        page.locator(".wb-input-case-upload").first.click()  # the file input is detached
+    chooser.value.set_files(
+        files=[{"name": "broken.json", "mimeType": "application/json",
+                "buffer": b'{"format": "turbo-workbench machine case", "format_version": 1,'
+                          b' "inputs": {"inlet_pressure_Pa": "twenty"'}])
+    page.wait_for_function(
+        "() => { const e = document.querySelector('.wb-message');"
+        " return e && /case not loaded/.test(e.innerText); }", timeout=UPDATE_TIMEOUT)
+    assert "JSON" in text_of(page, ".wb-message")
+    assert text_of(page, power) == shown
+    page.screenshot(path=str(screenshots / "compressor-broken-case.png"), full_page=True)
+
+
+def test_train_dashboard_shows_total_shaft_power(served_dashboards, page):
+    page.goto(served_dashboards + "/voila/render/train.ipynb", timeout=FIRST_RESULT_TIMEOUT)
+    total = wait_for_number(page, ".wb-result-total-shaft-power")
+    # a compressor train absorbs power: a positive magnitude (project sign convention)
+    assert number_in(total) > 0
+    assert page.locator(".wb-caution").count() == 1
 
 
 def css_of(page, selector: str, prop: str) -> str:

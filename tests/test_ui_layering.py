@@ -130,3 +130,19 @@ def test_importing_every_panel_does_not_import_dask():
         pytest.xfail("pint imports dask.base when dask is installed (pint.compat); "
                      "workbench/units.py must hide dask from pint while importing it")
     assert _dask_modules(PANELS) == []
+
+
+def test_workbench_ui_exports_every_panel_built_on_one_base():
+    import ipywidgets as widgets
+
+    import workbench.ui as ui
+    from workbench.ui.common import Panel
+
+    assert {"MachinePanel", "TrainPanel", "ReadingsPanel", "FieldDataPanel"} <= set(ui.__all__)
+    for name in ("MachinePanel", "TrainPanel"):
+        panel_class = getattr(ui, name)
+        assert issubclass(panel_class, Panel) and issubclass(panel_class, widgets.VBox)
+    assert issubclass(ui.ReadingsPanel, widgets.VBox)  # the readings panel, either name
+    assert ui.FieldDataPanel is ui.ReadingsPanel
+    with pytest.raises(AttributeError):
+        ui.NoSuchPanel  # noqa: B018
