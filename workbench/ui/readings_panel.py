@@ -42,7 +42,6 @@ from contextlib import contextmanager
 
 import ipywidgets as widgets
 
-from ..errors import WorkbenchError
 from ..fieldtest.design import DesignPoint
 from ..fieldtest.readers import READING_KINDS
 from ..fieldtest.session import (
@@ -351,10 +350,8 @@ class ReadingsPanel(Panel):
         :data:`~workbench.fieldtest.session.UPLOAD_LIMIT_BYTES`, empty, binary, not a table)
         leaves the panel as it was, its last results marked stale, and the message says why.
         """
-        try:
-            raw = read_table(file_name, content)
-        except WorkbenchError as exc:
-            self.fail(exc)
+        good, raw = self.attempt(read_table, file_name, content)
+        if not good:
             return False
         self.raw, self.file_name = raw, file_name
         self.title.value = view.title_html(file_name)
@@ -454,15 +451,15 @@ class ReadingsPanel(Panel):
         if self.raw is None:
             self.fail("load a readings file first")
             return False
-        try:
-            setup = self.current_setup()
-            with self._progress_bar(len(self.raw)) as progress:
-                session = evaluate_session(self.raw, setup, progress=progress)
-        except Exception as exc:  # noqa: BLE001 - shown in the message area, never raised
-            self.fail(exc)
-            return False
-        self._show(session)
-        return True
+        good, session = self.attempt(self._evaluate_session)
+        if good:
+            self._show(session)
+        return good
+
+    def _evaluate_session(self):
+        setup = self.current_setup()
+        with self._progress_bar(len(self.raw)) as progress:
+            return evaluate_session(self.raw, setup, progress=progress)
 
     @contextmanager
     def _progress_bar(self, rows: int):
@@ -509,15 +506,14 @@ class ReadingsPanel(Panel):
         bool
             True when the setup was loaded (the evaluation's outcome is in the message area).
         """
-        try:
-            setup = setup_from_file(source, self.raw, self.file_name)
-        except Exception as exc:  # noqa: BLE001 - the panel and its results stay as they were
-            self.message.show_error(exc, "setup not loaded: ")
+        # a refused setup leaves the panel and its results as they were (not stale)
+        good, setup = self.attempt(setup_from_file, source, self.raw, self.file_name,
+                                   prefix="setup not loaded: ", stale=False)
+        if not good:
             return False
-        try:
-            self._apply_setup(setup)
-        except Exception as exc:  # noqa: BLE001 - shown in the message area, never raised
-            self.fail(exc, "the setup was only partly applied; check the entries: ")
+        good, _ = self.attempt(self._apply_setup, setup,
+                               prefix="the setup was only partly applied; check the entries: ")
+        if not good:
             return False
         made_with = setup.readings_file
         note_text = (f" (made with {made_with})" if made_with and made_with != self.file_name
@@ -562,15 +558,16 @@ class ReadingsPanel(Panel):
         value = change["new"]
         if not value:
             return
-        try:
-            item = value[0] if isinstance(value, (tuple, list)) else next(iter(value.values()))
-            content = item["content"] if isinstance(item, dict) else item.content
-            name = item.get("name", "") if isinstance(item, dict) else getattr(item, "name", "")
-            self.load_setup(bytes(content), name)
-        except Exception as exc:  # noqa: BLE001 - shown in the message area, never raised
-            self.message.show_error(exc, "setup not loaded: the upload could not be read: ")
+        self.attempt(self._load_uploaded_setup, value, stale=False,
+                     prefix="setup not loaded: the upload could not be read: ")
         with self.quiet():
             self.setup_upload.value = ()  # so the same file can be loaded again
+
+    def _load_uploaded_setup(self, value):
+        item = value[0] if isinstance(value, (tuple, list)) else next(iter(value.values()))
+        content = item["content"] if isinstance(item, dict) else item.content
+        name = item.get("name", "") if isinstance(item, dict) else getattr(item, "name", "")
+        self.load_setup(bytes(content), name)
 
     def _refresh_setup_link(self):
         """Put the current setup into the download link (a data: URL)."""
@@ -593,20 +590,18 @@ class ReadingsPanel(Panel):
         self.show_result(session, "" if s["flagged"] == 0 else
                          f"{s['flagged']} row(s) flagged; their messages are in the table "
                          "and the CSV.")
-        try:
-            update_readings_figure(self.figure, session.chart_series())
-            refresh_view(self.figure_view, self.figure)
-        except Exception as exc:  # noqa: BLE001 - the table stays good; the chart is not
-            self.message.show_error(exc, "the charts could not be drawn: ")
+        self.attempt(self._draw, session, prefix="the charts could not be drawn: ",
+                     stale=False)  # the table stays good when the chart is not
         self.table.value = view.table_html(session)
         self.export.value = download_link(
             session.export_csv(), "results.csv", f"Download all {s['rows']} rows as CSV") + (
             " (SI units; <code>steady</code> and each reading's largest deviation from its "
             "window mean)")
-        try:
-            self._refresh_setup_link()
-        except WorkbenchError as exc:
-            self.message.show_error(exc, "setup not saved: ")
+        self.attempt(self._refresh_setup_link, prefix="setup not saved: ", stale=False)
+
+    def _draw(self, session):
+        update_readings_figure(self.figure, session.chart_series())
+        refresh_view(self.figure_view, self.figure)
 
 
 __all__ = ["DEMO_FILE", "DEMO_GAS", "DEMO_MAP", "PROGRESS_ROWS", "ReadingsPanel"]
