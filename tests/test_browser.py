@@ -6,8 +6,9 @@ the efficiency follows, types an impossible inlet pressure and checks that the m
 names the pressure while the last good result stays shown; then opens the turbine
 dashboard and reads its power; switches the compressor dashboard's units, loads a broken
 case file (message, result kept) and counts the safety caution; reads the train
-dashboard's total shaft power; then opens the test-data dashboard, checks the demo file's
-table colours and the plotly chart, and types a negative steady-state tolerance.  Skipped
+dashboard's total shaft power; then opens the test-data (readings) dashboard, checks the demo
+file's table colours and the plotly chart, types a negative steady-state tolerance, switches a
+column's unit, and uploads a broken file.  Skipped
 without Chromium unless WORKBENCH_REQUIRE_BROWSER=1.  With WORKBENCH_UPDATE_SCREENSHOTS=1 the
 test-data screenshot is also written to docs/screenshots/test-data.png.
 """
@@ -221,3 +222,39 @@ def test_test_data_dashboard_shows_table_chart_and_reports_a_bad_tolerance(
     commit_entry(page, "tolerance-outlet-temperature", "0.2")
     page.wait_for_function(f"() => ({unsteady_points})() > {before}", timeout=UPDATE_TIMEOUT)
     assert page.locator(".wb-result-summary .wb-fresh").count() == 1
+
+
+def test_test_data_dashboard_unit_switch_and_broken_file(served_dashboards, page,
+                                                         screenshots):
+    page.goto(served_dashboards + "/voila/render/test-data.ipynb",
+              timeout=FIRST_RESULT_TIMEOUT)
+    summary = wait_for_number(page, ".wb-result-summary")
+    assert "300 rows" in summary
+    # unit switch of a mapped column: a typed tolerance keeps its size in the new unit
+    # (0.2 bar = 2.90075 psi; NIST SP 811: 1 psi = 6894.757 Pa)
+    commit_entry(page, "tolerance-inlet-pressure", "0.2")
+    page.locator(".wb-input-unit-inlet-pressure select").first.select_option("psig")
+    page.wait_for_function(
+        "() => { const e = document.querySelector('.wb-input-tolerance-inlet-pressure input');"
+        " return e && Math.abs(parseFloat(e.value) - 2.90075) < 1e-4; }",
+        timeout=UPDATE_TIMEOUT)
+    unit = page.eval_on_selector(".wb-input-tolerance-inlet-pressure",
+                                 "e => e.parentElement.innerText")
+    assert unit.strip() == "psi"
+    # a broken file (binary junk named .csv): the message names it, the last good table
+    # stays with its summary marked stale; no upload reaches a parser unchecked
+    # (the upload button opens a file chooser from an input outside the page's DOM)
+    with page.expect_file_chooser(timeout=UPDATE_TIMEOUT) as chooser:
+        page.locator(".wb-input-file").first.click()
+    chooser.value.set_files(files=[{"name": "logger-dump.csv", "mimeType": "text/csv",
+                                    "buffer": bytes(range(256)) * 40}])
+    page.wait_for_function(
+        "() => { const e = document.querySelector('.wb-message');"
+        " return e && /logger-dump.csv/.test(e.innerText); }", timeout=UPDATE_TIMEOUT)
+    message = text_of(page, ".wb-message")
+    assert "binary data" in message
+    assert page.locator(".wb-result-table tr.wb-row-flagged").count() == 6
+    assert page.locator(".wb-result-summary .wb-stale").count() == 1
+    assert page.locator(".wb-result-progress").count() == 1  # present, hidden when idle
+    assert not page.locator(".wb-result-progress").first.is_visible()
+    page.screenshot(path=str(screenshots / "test-data-broken-file.png"), full_page=True)

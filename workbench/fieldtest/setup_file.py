@@ -92,7 +92,13 @@ DESIGN_KEYS = ("isentropic_efficiency", "shaft_power_W", "inlet_volume_flow_m3_p
 
 
 def tolerance_unit(unit: str, kind: str) -> str:
-    """Unit of a difference of readings taken in ``unit`` (``bar(g)`` -> ``bar``)."""
+    """Unit of a difference of readings taken in ``unit`` (``bar(g)`` -> ``bar``).
+
+    Examples
+    --------
+    >>> tolerance_unit("bar(g)", "pressure"), tolerance_unit("degC", "temperature")
+    ('bar', '°C')
+    """
     if kind == "pressure":
         text = parse_unit(unit, kind)[0]
     else:
@@ -116,6 +122,11 @@ def difference_to_si(value: float, unit: str, kind: str, name: str) -> float:
     -------
     float
         The difference in SI units [Pa, K, kg/s, m^3/s, W; rev/min for speed].
+
+    Examples
+    --------
+    >>> round(difference_to_si(1.8, "degF", "temperature", "outlet_temperature"), 12)
+    1.0
     """
     zero, shifted = convert_values([0.0, float(value)], unit, kind, name)
     return float(shifted - zero)
