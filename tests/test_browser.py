@@ -4,8 +4,11 @@ Starts ``workbench serve`` on a free port (fixture ``served_dashboards`` in conf
 opens the compressor dashboard, changes the measured outlet temperature and checks that
 the efficiency follows, types an impossible inlet pressure and checks that the message
 names the pressure while the last good result stays shown; then opens the turbine
-dashboard and reads its power; then opens the test-data dashboard, checks the demo file's
-table colours and the plotly chart, and types a negative steady-state tolerance.  Skipped
+dashboard and reads its power; switches the compressor dashboard's units, loads a broken
+case file (message, result kept) and counts the safety caution; reads the train
+dashboard's total shaft power; then opens the test-data (readings) dashboard, checks the demo
+file's table colours and the plotly chart, types a negative steady-state tolerance, switches a
+column's unit, and uploads a broken file.  Skipped
 without Chromium unless WORKBENCH_REQUIRE_BROWSER=1.  With WORKBENCH_UPDATE_SCREENSHOTS=1 the
 test-data screenshot is also written to docs/screenshots/test-data.png.
 """
@@ -119,6 +122,48 @@ def test_turbine_dashboard_shows_power(served_dashboards, page, screenshots):
     page.screenshot(path=str(screenshots / "turbine.png"), full_page=True)
 
 
+def test_compressor_dashboard_unit_switch_broken_case_file_and_one_caution(
+        served_dashboards, page, screenshots):
+    page.goto(served_dashboards + "/voila/render/compressor.ipynb",
+              timeout=FIRST_RESULT_TIMEOUT)
+    power = ".wb-result-power"
+    first = wait_for_number(page, power)
+    # the safety caution is shown once (DESIGN.md, "Safety"), not repeated per result
+    assert page.locator(".wb-caution").count() == 1
+    # bar -> psi: 1 psi = 6894.757 Pa, 1 bar = 14.503774 psi (NIST SP 811)
+    bar = entry_value(page, "inlet-pressure")
+    page.select_option(".wb-input-unit-system select", "US customary")
+    page.wait_for_function(
+        "v => { const e = document.querySelector('.wb-input-inlet-pressure input');"
+        " return e && Math.abs(parseFloat(e.value) - v) < 0.01; }",
+        arg=round(bar * 1e5 / 6894.757, 2), timeout=UPDATE_TIMEOUT)
+    shown = wait_for_change(page, power, first)
+    assert "hp" in shown  # US customary power unit
+    # a broken case file: the message says so and the result stays
+    page.locator(".wb-tabs .lm-TabBar-tab, .wb-tabs .p-TabBar-tab",
+                 has_text="case file").first.click()
+    with page.expect_file_chooser(timeout=UPDATE_TIMEOUT) as chooser:
+        page.locator(".wb-input-case-upload").first.click()  # the file input is detached
+    chooser.value.set_files(
+        files=[{"name": "broken.json", "mimeType": "application/json",
+                "buffer": b'{"format": "turbo-workbench machine case", "format_version": 1,'
+                          b' "inputs": {"inlet_pressure_Pa": "twenty"'}])
+    page.wait_for_function(
+        "() => { const e = document.querySelector('.wb-message');"
+        " return e && /case not loaded/.test(e.innerText); }", timeout=UPDATE_TIMEOUT)
+    assert "JSON" in text_of(page, ".wb-message")
+    assert text_of(page, power) == shown
+    page.screenshot(path=str(screenshots / "compressor-broken-case.png"), full_page=True)
+
+
+def test_train_dashboard_shows_total_shaft_power(served_dashboards, page):
+    page.goto(served_dashboards + "/voila/render/train.ipynb", timeout=FIRST_RESULT_TIMEOUT)
+    total = wait_for_number(page, ".wb-result-total-shaft-power")
+    # a compressor train absorbs power: a positive magnitude (project sign convention)
+    assert number_in(total) > 0
+    assert page.locator(".wb-caution").count() == 1
+
+
 def css_of(page, selector: str, prop: str) -> str:
     """Computed CSS property of the first element matching ``selector``."""
     return page.eval_on_selector(selector, f"e => getComputedStyle(e).{prop}")
@@ -177,3 +222,39 @@ def test_test_data_dashboard_shows_table_chart_and_reports_a_bad_tolerance(
     commit_entry(page, "tolerance-outlet-temperature", "0.2")
     page.wait_for_function(f"() => ({unsteady_points})() > {before}", timeout=UPDATE_TIMEOUT)
     assert page.locator(".wb-result-summary .wb-fresh").count() == 1
+
+
+def test_test_data_dashboard_unit_switch_and_broken_file(served_dashboards, page,
+                                                         screenshots):
+    page.goto(served_dashboards + "/voila/render/test-data.ipynb",
+              timeout=FIRST_RESULT_TIMEOUT)
+    summary = wait_for_number(page, ".wb-result-summary")
+    assert "300 rows" in summary
+    # unit switch of a mapped column: a typed tolerance keeps its size in the new unit
+    # (0.2 bar = 2.90075 psi; NIST SP 811: 1 psi = 6894.757 Pa)
+    commit_entry(page, "tolerance-inlet-pressure", "0.2")
+    page.locator(".wb-input-unit-inlet-pressure select").first.select_option("psig")
+    page.wait_for_function(
+        "() => { const e = document.querySelector('.wb-input-tolerance-inlet-pressure input');"
+        " return e && Math.abs(parseFloat(e.value) - 2.90075) < 1e-4; }",
+        timeout=UPDATE_TIMEOUT)
+    unit = page.eval_on_selector(".wb-input-tolerance-inlet-pressure",
+                                 "e => e.parentElement.innerText")
+    assert unit.strip() == "psi"
+    # a broken file (binary junk named .csv): the message names it, the last good table
+    # stays with its summary marked stale; no upload reaches a parser unchecked
+    # (the upload button opens a file chooser from an input outside the page's DOM)
+    with page.expect_file_chooser(timeout=UPDATE_TIMEOUT) as chooser:
+        page.locator(".wb-input-file").first.click()
+    chooser.value.set_files(files=[{"name": "logger-dump.csv", "mimeType": "text/csv",
+                                    "buffer": bytes(range(256)) * 40}])
+    page.wait_for_function(
+        "() => { const e = document.querySelector('.wb-message');"
+        " return e && /logger-dump.csv/.test(e.innerText); }", timeout=UPDATE_TIMEOUT)
+    message = text_of(page, ".wb-message")
+    assert "binary data" in message
+    assert page.locator(".wb-result-table tr.wb-row-flagged").count() == 6
+    assert page.locator(".wb-result-summary .wb-stale").count() == 1
+    assert page.locator(".wb-result-progress").count() == 1  # present, hidden when idle
+    assert not page.locator(".wb-result-progress").first.is_visible()
+    page.screenshot(path=str(screenshots / "test-data-broken-file.png"), full_page=True)

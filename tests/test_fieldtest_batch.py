@@ -269,7 +269,7 @@ def test_whole_array_path_equals_single_point_api(machine, backend, mode, monkey
     out = evaluate(frame, machine, fluid, mode=mode,
                    results=("power", "shaft_power", "isentropic_efficiency", "isentropic_head",
                             "outlet_temperature", "outlet_quality", "inlet_volume_flow",
-                            "outlet_temperature_sensitivity"))
+                            "outlet_temperature_sensitivity", "pressure_ratio"))
     assert len(out) == n
     # only the rows the arrays could not settle went through the single-point API
     assert 0 < len(calls) == (out["status"] != "ok").sum()
@@ -287,7 +287,10 @@ def test_whole_array_path_equals_single_point_api(machine, backend, mode, monkey
                               ("isentropic_efficiency", single.isentropic_efficiency),
                               ("isentropic_head", single.isentropic_head),
                               ("outlet_temperature", single.outlet.T),
-                              ("inlet_volume_flow", single.inlet_volume_flow)):
+                              ("inlet_volume_flow", single.inlet_volume_flow),
+                              # higher over lower pressure for every machine, a turbine's
+                              # inlet over outlet (common practice)
+                              ("pressure_ratio", single.pressure_ratio)):
             assert out.loc[i, column] == pytest.approx(value, rel=1e-10), column
         sensitivity = single.outlet_temperature_sensitivity
         if np.isnan(sensitivity):

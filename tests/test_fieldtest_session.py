@@ -13,6 +13,8 @@ import json
 import numpy as np
 import pandas as pd
 import pytest
+from hypothesis import HealthCheck, given, settings
+from hypothesis import strategies as st
 
 import workbench as wb
 from workbench.fieldtest import (
@@ -82,14 +84,15 @@ def test_a_file_over_the_upload_limit_is_refused_before_parsing():
 @pytest.mark.parametrize("name, content, words", [
     ("empty.csv", b"", "is empty"),
     ("blank.csv", b" \n \n", "is empty"),
-    ("header.csv", b"p1 bar,t1 C\n", "no rows"),
-    ("junk.csv", b"\x00\x01\x02\xff" * 100, r"not a text \(CSV\) file"),
-    ("broken.xlsx", b"PK\x03\x04 not really a workbook", "could not be read as an Excel"),
-    ("text.xlsx", b"p1,t1\n1,2\n", "could not be read as an Excel"),
+    ("header.csv", b"p1 bar,t1 C\n", "header row but no readings"),
+    ("junk.csv", b"\x00\x01\x02\xff" * 100, "binary data"),
+    ("broken.xlsx", b"PK\x03\x04 not really a workbook", "Excel workbook"),
+    ("text.xlsx", b"p1,t1\n1,2\n", "Excel workbook"),
 ], ids=["empty", "blank", "header-only", "binary", "corrupt-xlsx", "text-as-xlsx"])
 def test_broken_files_get_a_message(name, content, words):
-    with pytest.raises(wb.ReadingsError, match=words):
+    with pytest.raises(wb.ReadingsError, match=words) as info:
         ses.read_table(name, content)
+    assert name in str(info.value)
 
 
 def test_an_excel_workbook_is_read(tmp_path):
@@ -296,3 +299,77 @@ def test_progress_is_passed_to_a_batch_that_reports_it(raw, monkeypatch):
     calls = []
     ses.evaluate_session(raw, air_setup(), progress=lambda d, t: calls.append(d))
     assert calls[:3] == [0, 15, 30]
+
+
+# ---------------------------------------------------------------------- hostile entries
+#: Values a user, a file or a setup may hand over where something else belongs.
+HOSTILE = st.one_of(
+    st.none(), st.booleans(), st.integers(), st.integers(min_value=10**300),
+    st.floats(allow_nan=True, allow_infinity=True), st.text(max_size=30), st.binary(max_size=20),
+    st.lists(st.integers(), max_size=3), st.dictionaries(st.text(max_size=3), st.integers(),
+                                                         max_size=2),
+    st.sampled_from([wb.Q_(1.0, "bar"), wb.Q_(3.0, "K"), "bar(g)", "p1 bar", "Air", 0, 1e-300]))
+SETUP_KEYS = ("column_map", "units", "machine", "fluid", "property_model", "ambient_pressure",
+              "mechanical_efficiency", "steady_window", "steady_tolerances", "uncertainty",
+              "design", "readings_file")
+FAST = settings(max_examples=150, deadline=None, derandomize=True,
+                suppress_health_check=[HealthCheck.too_slow])
+
+
+@FAST
+@given(name=st.sampled_from(["r.csv", "r.xlsx", "r.txt", "r"]),
+       content=st.one_of(st.binary(max_size=400),
+                         st.text(max_size=400).map(lambda t: t.encode("utf-8"))))
+def test_any_bytes_give_a_table_or_a_readings_error(name, content):
+    # the file reader's contract (DESIGN.md): a table, or a WorkbenchError naming the file
+    try:
+        table = ses.read_table(name, content)
+    except wb.WorkbenchError as exc:
+        assert name in str(exc)
+    else:
+        assert isinstance(table, pd.DataFrame) and len(table) > 0
+
+
+@FAST
+@given(key=st.sampled_from(SETUP_KEYS), value=HOSTILE)
+def test_hostile_setup_entries_are_refused_by_name_or_kept_valid(key, value):
+    try:
+        setup = air_setup(**{key: value})
+    except wb.WorkbenchError as exc:
+        assert str(exc)  # a message, never a raw exception
+    else:
+        assert setup.steady_window >= 2 and 0 < setup.mechanical_efficiency <= 1
+        assert set(setup.steady_tolerances) == set(setup.column_map)
+
+
+@FAST
+@given(text=st.one_of(HOSTILE, st.text(alphabet="Methane=0.5;,Ethan -1e+x", max_size=30)))
+def test_fluid_text_gives_a_fluid_or_a_message(text):
+    try:
+        fluid = ses.parse_fluid(text)
+    except wb.WorkbenchError as exc:
+        assert str(exc)
+    else:
+        assert isinstance(fluid, wb.Fluid)
+
+
+@FAST
+@given(path=st.sampled_from([("machine",), ("fluid",), ("ambient_pressure_Pa",),
+                             ("steady_window_rows",), ("columns",),
+                             ("columns", "mass_flow"), ("columns", "mass_flow", "unit"),
+                             ("columns", "inlet_pressure", "steady_tolerance_Pa"),
+                             ("instrument_uncertainty", "flow_fraction"),
+                             ("design_point", "speed_rpm"), ("format_version",)]),
+       value=HOSTILE)
+def test_hostile_setup_files_are_refused_by_key(raw, path, value):
+    data = json.loads(json.dumps(air_setup().to_setup()))
+    where = data
+    for key in path[:-1]:
+        where = where[key]
+    where[path[-1]] = value if not isinstance(value, (bytes, wb.Q_)) else repr(value)
+    try:
+        setup = ses.setup_from_file(data, raw, "air.csv")
+    except wb.CaseFileError as exc:
+        assert path[0] in str(exc) or "setup" in str(exc)
+    else:
+        assert isinstance(setup, ses.SessionSetup)

@@ -131,3 +131,27 @@ def test_quantities_and_decimal_give_the_same_result():
     b = throttle(inlet, Q_(7.2, "t/h"), P_out=Q_(Decimal("1"), "bar"))
     assert b.outlet.T == pytest.approx(a.outlet.T, rel=1e-12)
     assert b.mass_flow == pytest.approx(2.0, rel=1e-12)
+
+
+def test_device_signatures_are_consistent():
+    # Project API rule (issue 9): every single-inlet device takes the inlet state and a
+    # required mass flow first (positional or keyword), and its outlet pressure keyword-only.
+    import inspect
+
+    import workbench as wb
+
+    for device in (wb.throttle, wb.nozzle, wb.diffuser, wb.splitter, wb.cooler,
+                   wb.pipe_segment):
+        params = list(inspect.signature(device).parameters.values())
+        assert params[1].name == "mass_flow", device.__name__
+        assert params[1].default is inspect.Parameter.empty, device.__name__
+        assert params[1].kind is inspect.Parameter.POSITIONAL_OR_KEYWORD, device.__name__
+    for device in (wb.throttle, wb.nozzle, wb.mixer):
+        P_out = inspect.signature(device).parameters["P_out"]
+        assert P_out.kind is inspect.Parameter.KEYWORD_ONLY, device.__name__
+    hx = inspect.signature(wb.heat_exchanger).parameters
+    assert hx["hot_mass_flow"].default is inspect.Parameter.empty
+    assert hx["cold_mass_flow"].default is inspect.Parameter.empty
+    # keyword use reads like the machines': throttle(inlet, mass_flow=..., P_out=...)
+    inlet = AIR.state_PT(10e5, 300.0)
+    assert throttle(inlet, mass_flow=2.0, P_out=1e5).mass_flow == 2.0

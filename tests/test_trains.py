@@ -78,7 +78,7 @@ def test_equal_ratios_close_on_discharge_pressure_with_drops():
     assert result.total_power == pytest.approx(sum(result.stage_powers), rel=1e-12)
     frame = result.stations_frame()
     assert list(frame.index[:3]) == ["inlet", "stage 1 outlet", "intercooler 1 outlet"]
-    assert frame["mass_flow_kg_per_s"].eq(2.0).all()
+    assert frame["mass_flow"].eq(2.0).all()
     assert len(result.machines_frame()) == 3
     # First law over the whole train: shaft power in = enthalpy rise + heat removed.
     outlet = result.train.outlet
@@ -106,9 +106,9 @@ def test_extraction_turbine_matches_if97():
     assert lp.outlet.x == pytest.approx(IAPWS97(P=0.01, h=h3).x, abs=1e-6)
     assert result.total_power == pytest.approx(hp.power + lp.power, rel=1e-12)
     stations = result.stations_frame()
-    assert stations.loc["extraction branch", "mass_flow_kg_per_s"] == pytest.approx(3.0)
-    assert stations.loc["LP section outlet", "mass_flow_kg_per_s"] == pytest.approx(17.0)
-    assert result.to_dict()["totals"]["extracted_mass_flow_kg_per_s"] == pytest.approx(3.0)
+    assert stations.loc["extraction branch", "mass_flow"] == pytest.approx(3.0)
+    assert stations.loc["LP section outlet", "mass_flow"] == pytest.approx(17.0)
+    assert result.to_dict()["totals"]["extracted_mass_flow"] == pytest.approx(3.0)
 
 
 def test_feed_heater_on_the_extraction():
@@ -256,11 +256,12 @@ def test_extraction_is_a_named_attribute_and_powers_are_named_for_the_shaft():
     assert result.total_shaft_power == pytest.approx(0.98 * fluid_power, rel=1e-12)
     assert result.total_power == result.total_shaft_power
     assert result.train.delivered_shaft_power == result.total_shaft_power
-    assert result.to_dict()["totals"]["delivered_shaft_power_W"] == result.total_shaft_power
-    # the machine table keeps both, named: power_W (fluid) and shaft_power_W
+    totals = result.to_dict()["totals"]
+    assert totals["delivered_shaft_power"] == totals["total_shaft_power"] == result.total_shaft_power
+    # the machine table keeps both, named: power (fluid) and shaft_power
     frame = result.machines_frame()
-    assert frame.loc["HP section", "power_W"] == pytest.approx(hp.power)
-    assert frame.loc["HP section", "shaft_power_W"] == pytest.approx(0.98 * hp.power)
+    assert frame.loc["HP section", "power"] == pytest.approx(hp.power)
+    assert frame.loc["HP section", "shaft_power"] == pytest.approx(0.98 * hp.power)
 
 
 def test_intercooled_total_is_shaft_power():
@@ -271,7 +272,10 @@ def test_intercooled_total_is_shaft_power():
     fluid = sum(m.power for m in r.train.machines.values())
     assert r.total_shaft_power == pytest.approx(fluid / 0.97, rel=1e-12)
     assert r.total_power == r.total_shaft_power == pytest.approx(sum(r.stage_powers))
-    assert r.to_dict()["totals"]["total_shaft_power_W"] == r.total_shaft_power
+    totals = r.to_dict()["totals"]
+    assert totals["total_shaft_power"] == r.total_shaft_power
+    assert totals["stage_shaft_powers"] == pytest.approx(list(r.stage_shaft_powers), rel=0)
+    assert totals["stage_pressure_ratios"] == pytest.approx(list(r.stage_pressure_ratios), rel=0)
 
 
 def test_an_extraction_must_leave_flow_for_the_next_step():
@@ -288,15 +292,30 @@ def test_an_extraction_must_leave_flow_for_the_next_step():
 
 
 def test_tables_take_their_columns_from_the_fields_table():
+    # Keys and columns are plain field names of workbench.fields.FIELDS, as in
+    # MachineResult.to_dict and the device results (no unit in the key).
     from workbench.fields import FIELDS
-    from workbench.trains import MACHINE_FIELDS, STATION_FIELDS
-    from workbench.trains.core import column
+    from workbench.machines.checks import field_key
+    from workbench.trains import MACHINE_FIELDS, STATION_FIELDS, TOTAL_FIELDS
     suction = AIR.state_PT(1e5, 300.0)
     r = intercooled_compressor(suction, 1.0, P_out=4e5, isentropic_efficiency=0.8,
-                               cooler_outlet_temperature=300.0)
+                               cooler_outlet_temperature=300.0,
+                               cooling_water_inlet_temperature=290.0,
+                               cooling_water_outlet_temperature=300.0)
     stations = r.stations_frame()
-    assert list(stations.columns) == ["role", *(column(n) for n in STATION_FIELDS), "phase"]
-    assert column("pressure") == "pressure_Pa" and column("entropy") == "entropy_J_per_kgK"
+    assert list(stations.columns) == ["role", *STATION_FIELDS, "phase"]
+    d = r.to_dict()
+    # a stage's row has the keys and values of the stage's own MachineResult.to_dict
+    stage, row = r.train.machines["stage 1"].to_dict(), d["steps"][0]
+    assert list(row) == ["step", "kind", *MACHINE_FIELDS]
+    assert [row[k] for k in MACHINE_FIELDS] == pytest.approx(
+        [stage[k] for k in MACHINE_FIELDS], rel=0, nan_ok=True)
+    assert set(d["totals"]) == {*TOTAL_FIELDS, "method", "total_shaft_power",
+                                "stage_pressure_ratios", "stage_shaft_powers"}
+    # every number's key is a field name (devices: a stream prefix and a field name)
+    for one in (*d["stations"], *d["steps"], d["totals"]):
+        numbers = [k for k, v in one.items() if not isinstance(v, str)]
+        assert numbers and all(field_key(k) for k in numbers)
     labelled = r.machines_frame(headers=True)
     assert [FIELDS[n].header() for n in MACHINE_FIELDS] == list(labelled.columns[1:])
     assert "shaft power [W]" in labelled.columns and "fluid power [W]" in labelled.columns

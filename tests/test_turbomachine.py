@@ -195,6 +195,17 @@ def test_turbine_total_to_static_below_total_to_total(steam):
     assert r.isentropic_efficiency_total_to_static < r.isentropic_efficiency_total
 
 
+def test_pressure_ratio_is_higher_over_lower(steam):
+    # Convention (common practice, workbench.fields.FIELDS["pressure_ratio"]): pressure
+    # ratios are quoted higher over lower pressure, so a turbine from 20 to 2 bar has an
+    # expansion ratio of 10 (inlet over outlet) and a pump from 1 to 11 bar a ratio of 11.
+    r = wb.turbine(steam.state(P=20e5, T=573.15), P_out=2e5, isentropic_efficiency=0.8)
+    assert r.pressure_ratio == pytest.approx(10.0, rel=1e-12)
+    assert r.to_dict()["pressure_ratio"] == r.pressure_ratio
+    p = wb.pump(steam.state(P=1e5, T=300.0), P_out=11e5, isentropic_efficiency=0.7)
+    assert p.pressure_ratio == pytest.approx(11.0, rel=1e-12)
+
+
 def test_mechanical_efficiency():
     air = wb.Fluid("Air")
     r = wb.compressor(air.state(P=1e5, T=300.0), P_out=2e5, isentropic_efficiency=0.8,

@@ -298,13 +298,14 @@ def test_a_broken_file_keeps_the_last_table_marked_stale():
     panel = ReadingsPanel.demo()
     table, results = panel.table.value, panel.results
     for name, content, words in (
-            ("junk.csv", b"\x00\x9f\x12" * 50, "not a text (CSV) file"),
-            ("cut.xlsx", b"PK\x03\x04 truncated", "could not be read as an Excel workbook"),
+            ("junk.csv", b"\x00\x9f\x12" * 50, "binary data"),
+            ("cut.xlsx", b"PK\x03\x04 truncated", "Excel workbook"),
             ("empty.csv", b"", "is empty"),
-            ("header.csv", b"a,b,c\n", "no rows")):
+            ("header.csv", b"a,b,c\n", "header row but no readings")):
         panel.upload.value = upload_value(name, content)  # no exception may escape
         assert words in panel.message.text and name in panel.message.text
         assert panel.message.level == "error"
+        assert panel.upload.value == ()  # cleared: the same file can be chosen again
         assert panel.table.value == table and panel.results is results
         assert "wb-stale" in panel.summary.value
     # the last good file is still loaded: evaluating again refreshes the same results
@@ -345,3 +346,27 @@ def test_a_large_file_shows_a_progress_bar(monkeypatch):
     assert values[-1] == 100 and values == sorted(values) and len(values) >= 3
     assert all(display is None for _, display in seen)  # shown while it moved
     assert panel.progress.layout.display == "none"  # hidden when done
+
+
+def test_readings_ui_modules_import_no_property_library_and_build_no_states():
+    # layer rule of the project (DESIGN.md): a panel binds widgets to the session below ui
+    import ast
+    import pathlib
+
+    import workbench.ui as ui
+
+    folder = pathlib.Path(ui.__file__).parent
+    for path in sorted(folder.glob("readings_*.py")):
+        tree = ast.parse(path.read_text(encoding="utf-8"))
+        for node in ast.walk(tree):
+            if isinstance(node, ast.Import):
+                assert not any(a.name.split(".")[0] == "CoolProp" for a in node.names), path
+            elif isinstance(node, ast.ImportFrom):
+                module = node.module or ""
+                assert module.split(".")[0] != "CoolProp", path
+                assert "fluids" not in module.split("."), (path, module)
+                assert "properties" not in module.split("."), (path, module)
+            elif isinstance(node, ast.Attribute):
+                assert node.attr not in ("state", "states_PT", "states_Ph", "states_Ps",
+                                         "propagate_uncertainty", "steady_state_flags",
+                                         "compare_with_design"), (path, node.attr)

@@ -310,6 +310,9 @@ def voila_argv(folder: Path, host: str = DEFAULT_HOST, port: int = DEFAULT_PORT,
         "--preheat_kernel=True",
         f"--pool_size={int(pool_size)}",
         "--Voila.port_retries=0",
+        # uploads of readings files up to the panel's 20 MiB limit travel as one websocket
+        # message (base64): raise tornado's 10 MiB default so the panel can say "too large"
+        '--Voila.tornado_settings={"websocket_max_message_size": 67108864}',
         *access,
     ]
 

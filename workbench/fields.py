@@ -70,8 +70,19 @@ def _f(name, kind, label, description, fmt=".5g"):
 
 _EFF = ".4f"
 
+
+def _table(rows) -> dict:
+    """The rows by name; a name used twice is a mistake in this module (ValueError)."""
+    table = {}
+    for f in rows:
+        if f.name in table:
+            raise ValueError(f"result field {f.name!r} is described twice in FIELDS")
+        table[f.name] = f
+    return table
+
+
 #: Every result field of the workbench, by name.
-FIELDS: dict[str, ResultField] = {f.name: f for f in (
+FIELDS: dict[str, ResultField] = _table((
     # states
     _f("inlet_pressure", "pressure", "inlet pressure", "Static pressure at the inlet."),
     _f("inlet_temperature", "temperature", "inlet temperature",
@@ -144,10 +155,10 @@ FIELDS: dict[str, ResultField] = {f.name: f for f in (
     _f("isentropic_exponent", "dimensionless", "isentropic exponent",
        "Volume exponent of the isentropic path."),
     _f("pump_head", "length", "pump head", "Isentropic head over standard gravity."),
-    _f("outlet_temperature_sensitivity", "dimensionless",
+    _f("outlet_temperature_sensitivity", "per_kelvin",
        "efficiency change per kelvin",
-       "Change of the isentropic efficiency per kelvin of measured outlet temperature "
-       "[1/K].", ".3g"),
+       "Change of the isentropic efficiency per kelvin of measured outlet temperature.",
+       ".3g"),
     _f("mechanical_efficiency", "dimensionless", "mechanical efficiency",
        "Shaft over fluid power (turbine) or fluid over shaft power (driven machine).", _EFF),
     # devices and trains
@@ -296,7 +307,26 @@ FIELDS: dict[str, ResultField] = {f.name: f for f in (
        ".4g"),
     _f("specific_volume_ratio", "dimensionless", "specific volume ratio",
        "Inlet over discharge specific volume (ASME PTC 10).", ".5f"),
-)}
+    # train totals (TrainResult.totals, the parametrised trains' to_dict)
+    _f("absorbed_shaft_power", "power", "absorbed shaft power",
+       "Shaft power taken by a train's compressors and pumps, a positive magnitude."),
+    _f("delivered_shaft_power", "power", "delivered shaft power",
+       "Shaft power given by a train's turbine sections, a positive magnitude."),
+    _f("net_shaft_power", "power", "net shaft power",
+       "Delivered minus absorbed shaft power of a train (negative for a driven train)."),
+    _f("cooling_water_mass_flow", "mass_flow", "cooling water flow",
+       "Cooling water a cooler needs between its water inlet and outlet temperatures; "
+       "empty when they were not given."),
+    _f("inlet_mass_flow", "mass_flow", "inlet mass flow", "Main-line flow at the train inlet."),
+    _f("outlet_mass_flow", "mass_flow", "outlet mass flow",
+       "Main-line flow at the train outlet."),
+    _f("extracted_mass_flow", "mass_flow", "extracted mass flow",
+       "Total flow of the branches leaving a train."),
+    _f("admitted_mass_flow", "mass_flow", "admitted mass flow",
+       "Total flow of the branches joining a train."),
+    _f("stage_shaft_powers", "power", "stage shaft powers",
+       "Shaft power of each stage or section of a train, positive magnitudes."),
+))
 
 
 def field(name: str) -> ResultField:

@@ -30,10 +30,9 @@ Examples
 from __future__ import annotations
 
 import json
-import os
 from importlib import resources
-from pathlib import Path
 
+from .casefiles import read_json
 from .errors import CaseFileError, WorkbenchError
 from .study import validate_inputs
 
@@ -48,87 +47,15 @@ MAX_DEPTH = 8
 _TOP_KEYS = {"format", "format_version", "title", "description", "inputs"}
 
 
-def _depth_ok(text: str) -> bool:
-    """True when JSON text nests brackets at most :data:`MAX_DEPTH` deep (strings skipped)."""
-    depth, in_string, escaped = 0, False, False
-    for char in text:
-        if in_string:
-            if escaped:
-                escaped = False
-            elif char == "\\":
-                escaped = True
-            elif char == '"':
-                in_string = False
-        elif char == '"':
-            in_string = True
-        elif char in "[{":
-            depth += 1
-            if depth > MAX_DEPTH:
-                return False
-        elif char in "]}":
-            depth -= 1
-    return True
-
-
-def _refuse_constant(name):
-    raise CaseFileError(f"the case file holds {name}, which is not a number JSON allows")
-
-
-def parse_case_json(text: str, what: str = "case"):
-    """Parse the JSON text of a case file safely (size, nesting, NaN/Infinity refused).
-
-    Raises
-    ------
-    CaseFileError
-        Text too long, nested too deep, not JSON, or with NaN/Infinity or a number too
-        long to read.
+def read_json_source(source, what: str = "case") -> dict:
+    """The parsed JSON object of a case or setup: a dict, JSON text (str), bytes or a
+    :class:`pathlib.Path`, read by the project's one safe JSON reader
+    (:func:`workbench.casefiles.read_json`: size, nesting, huge integers, NaN/Infinity, null
+    characters and repeated keys refused).  A ``str`` is always the JSON text itself, never
+    opened as a file name.
     """
-    if len(text) > MAX_CASE_BYTES:
-        raise CaseFileError(f"the {what} file is {len(text)} characters long: at most "
-                            f"{MAX_CASE_BYTES} allowed")
-    if not _depth_ok(text):
-        raise CaseFileError(f"the {what} file nests objects or lists more than {MAX_DEPTH} "
-                            "deep")
-    try:
-        return json.loads(text, parse_constant=_refuse_constant)
-    except json.JSONDecodeError as exc:
-        raise CaseFileError(f"the {what} file is not valid JSON (line {exc.lineno}, column "
-                            f"{exc.colno}: {exc.msg})") from None
-    except (ValueError, RecursionError) as exc:  # e.g. an integer of thousands of digits
-        if isinstance(exc, CaseFileError):
-            raise
-        raise CaseFileError(f"the {what} file holds a value that cannot be read "
-                            f"({exc.__class__.__name__})") from None
-
-
-def read_case_text(source) -> str:
-    """The text of a case given as JSON text (str), bytes, or a :class:`pathlib.Path`.
-
-    A ``str`` is always the JSON text itself, never opened as a file name.
-    """
-    if isinstance(source, str):
-        return source
-    if isinstance(source, (bytes, bytearray, memoryview)):
-        data = bytes(source)
-    elif isinstance(source, os.PathLike):
-        path = Path(source)
-        try:
-            if path.stat().st_size > MAX_CASE_BYTES:
-                raise CaseFileError(f"the case file {path.name!r} is larger than "
-                                    f"{MAX_CASE_BYTES} bytes")
-            data = path.read_bytes()
-        except OSError as exc:
-            raise CaseFileError(f"could not read the case file {path.name!r}: "
-                                f"{exc.__class__.__name__}") from None
-    else:
-        raise CaseFileError("a case must be a dict, JSON text, bytes or a pathlib.Path, not "
-                            f"{type(source).__name__}")
-    if len(data) > MAX_CASE_BYTES:
-        raise CaseFileError(f"the case file is larger than {MAX_CASE_BYTES} bytes")
-    try:
-        return data.decode("utf-8")
-    except UnicodeDecodeError:
-        raise CaseFileError("the case file is not UTF-8 text") from None
+    return read_json(source, what, text=isinstance(source, str), max_bytes=MAX_CASE_BYTES,
+                     max_depth=MAX_DEPTH)
 
 
 def _note(value, key):
@@ -203,7 +130,7 @@ def read_case(source) -> dict:
     """
     if isinstance(source, dict):
         return validate_case(source)
-    return validate_case(parse_case_json(read_case_text(source)))
+    return validate_case(read_json_source(source))
 
 
 def make_case(inputs: dict, title: str = "", description: str = "") -> dict:
@@ -222,10 +149,12 @@ def list_demo_cases() -> list[str]:
     """Names of the demo cases shipped in ``workbench/cases`` (without ``.json``)."""
     folder = resources.files("workbench") / "cases"
     try:
-        names = [p.name for p in folder.iterdir()]
+        files = [p for p in folder.iterdir() if p.name.endswith(".json")]
     except (FileNotFoundError, NotADirectoryError):
         return []
-    return sorted(n[:-5] for n in names if n.endswith(".json"))
+    # the folder also holds other kinds of case (curves cases): list machine cases only
+    return sorted(p.name[:-5] for p in files
+                  if f'"format": "{FORMAT_NAME}"' in p.read_text(encoding="utf-8")[:200])
 
 
 def load_demo_case(name: str) -> dict:
@@ -247,5 +176,4 @@ def open_case(case) -> dict:
 
 
 __all__ = ["FORMAT_NAME", "FORMAT_VERSION", "case_json", "list_demo_cases", "load_demo_case",
-           "make_case", "open_case", "parse_case_json", "read_case", "read_case_text",
-           "validate_case"]
+           "make_case", "open_case", "read_case", "read_json_source", "validate_case"]

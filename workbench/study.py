@@ -379,8 +379,8 @@ def machine_study(inputs: dict, cache: dict | None = None):
 
 
 #: Result fields of a machine study that are not attributes of the result: field name ->
-#: getter.  The pressure ratio is quoted high over low, so a turbine shows its expansion
-#: ratio (as the field's description in :data:`workbench.fields.FIELDS` says).
+#: getter.  (The result's own ``pressure_ratio`` is quoted higher over lower pressure, so a
+#: turbine shows its expansion ratio, as :data:`workbench.fields.FIELDS` says.)
 _DERIVED = {
     "outlet_pressure": lambda r: r.outlet.P,
     "outlet_temperature": lambda r: r.outlet.T,
@@ -388,7 +388,6 @@ _DERIVED = {
     "inlet_pressure": lambda r: r.inlet.P,
     "inlet_temperature": lambda r: r.inlet.T,
     "inlet_quality": lambda r: r.inlet.quality,
-    "pressure_ratio": lambda r: max(r.outlet.P, r.inlet.P) / min(r.outlet.P, r.inlet.P),
 }
 
 
@@ -573,9 +572,6 @@ def process_series(result, path_steps: int = 12, dome_points: int = 40,
     }
 
 
-__all__ = ["DEFAULT_INPUTS", "SWEEP_INPUTS", "SWEEP_VARIABLES", "SweepResult", "normalise_composition", "pure_fluid_names",
-           "machine_study", "make_fluid", "mass_flow_from_case", "process_series",
-           "result_values", "sweep", "sweep_values", "validate_inputs"]
 
 
 def pure_fluid_names() -> list[str]:
@@ -588,3 +584,9 @@ def normalise_composition(composition: dict) -> dict:
     from .properties import normalise_fractions
 
     return normalise_fractions(dict(composition))
+
+
+__all__ = ["DEFAULT_INPUTS", "INPUT_CHECKS", "SWEEP_INPUTS", "SWEEP_VARIABLES", "SweepResult",
+           "machine_study", "make_fluid", "mass_flow_from_case", "normalise_composition",
+           "process_series", "pure_fluid_names", "result_values", "sweep", "sweep_values",
+           "validate_inputs"]

@@ -170,8 +170,7 @@ def train_study(scenario: str, inputs: dict):
 def stage_ratios_high_over_low(result) -> tuple:
     """Pressure ratio of each stage or section, higher over lower pressure [-] (a compressor
     stage discharge over suction, a turbine section inlet over exhaust: common practice)."""
-    return tuple(max(r.outlet.P, r.inlet.P) / min(r.outlet.P, r.inlet.P)
-                 for r in result.train.machines.values())
+    return tuple(r.pressure_ratio for r in result.train.machines.values())
 
 
 def train_values(result) -> dict:

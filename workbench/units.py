@@ -57,6 +57,7 @@ SI_UNITS = {
     "thermal_conductance": "W/K",
     "entropy_flow": "W/K",
     "joule_thomson_coefficient": "K/Pa",
+    "per_kelvin": "1/K",
 }
 
 

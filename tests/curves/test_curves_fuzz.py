@@ -143,7 +143,8 @@ def test_compressibility_and_mach_factor(args):
 
 
 SIM_ARGS = dict(diameter=0.4, width=0.022, test_type="2", method="schultz",
-                reynolds_correction=False, roughness=3.2e-6, limits=None, uncertainties=None)
+                reynolds_correction=False, roughness=3.2e-6, limits=None, uncertainties=None,
+                impellers=1)
 COND_FIELDS = ("inlet_pressure", "inlet_temperature", "discharge_pressure",
                "discharge_temperature", "volume_flow", "speed")
 
@@ -166,3 +167,83 @@ def test_compressor_similarity(key, value):
 def test_similarity_uncertainties(reading, b, s):
     _call(wb.compressor_similarity, COND, COND, diameter=0.4, width=0.022,
           uncertainties={reading: (b, s)})
+
+
+def _paths(obj, prefix=()):
+    if isinstance(obj, dict):
+        for k, v in obj.items():
+            yield prefix + (k,)
+            yield from _paths(v, prefix + (k,))
+    elif isinstance(obj, list):
+        for i, v in enumerate(obj[:3]):
+            yield prefix + (i,)
+            yield from _paths(v, prefix + (i,))
+
+
+DEMOS = {name: load for name, load in (
+    (n, __import__("workbench.curves", fromlist=["load_curves_demo"]).load_curves_demo(n))
+    for n in ("pump-loop-demo", "compressor-co2-shop-test-demo"))}
+PATHS = [(name, p) for name, data in DEMOS.items() for p in _paths(data)]
+json_values = st.recursive(
+    st.one_of(st.none(), st.booleans(), st.integers(-10 ** 20, 10 ** 400), st.text(max_size=5),
+              st.floats(allow_nan=False, allow_infinity=False)),
+    lambda inner: st.one_of(st.lists(inner, max_size=3),
+                            st.dictionaries(st.text(max_size=3), inner, max_size=3)),
+    max_leaves=6)
+
+
+@settings(max_examples=150, **SETTINGS)
+@given(where=st.sampled_from(PATHS), value=json_values)
+def test_case_files(where, value):
+    import copy
+
+    from workbench.curves import curves_report, evaluate_curves_case
+
+    name, path = where
+    data = copy.deepcopy(DEMOS[name])
+    target = data
+    for key in path[:-1]:
+        target = target[key]
+    target[path[-1]] = value
+    result = _call(evaluate_curves_case, data)
+    if result is not None:
+        assert "<svg" in curves_report(result)
+
+
+@settings(max_examples=200, **SETTINGS)
+@given(which=st.sampled_from(["reynolds_factor", "mach_limits", "demo", "npsh", "throttle",
+                              "from_dict", "best", "write", "groups"]),
+       a=hostile, b=st.one_of(hostile, st.floats(0.0, 1e-3)), c=hostile)
+def test_helpers(which, a, b, c, tmp_path_factory):
+    from workbench.curves import load_curves_demo, write_curves_report
+    from workbench.curves.similarity import (
+        mach_number_limits,
+        reynolds_factor,
+        similarity_groups,
+    )
+
+    if which == "reynolds_factor":
+        _call(reynolds_factor, a, 0.02, b)
+    elif which == "mach_limits":
+        _call(mach_number_limits, a)
+    elif which == "demo":
+        _call(load_curves_demo, a)
+    elif which == "npsh":
+        _call(SYSTEM.npsh_available, a)
+    elif which == "throttle":
+        system = _call(SYSTEM.with_throttle, a, section=c if c is not None else 0)
+        if system is not None:
+            _call(system.head, 0.02)
+    elif which == "from_dict":
+        _call(wb.PerformanceCurve.from_dict, {**CURVE.to_dict(), "degree": a, "min_flow": c}
+              if isinstance(c, (int, float)) else a)
+    elif which == "groups":
+        _call(similarity_groups, COND, a, 0.02, impellers=c if c is not None else 1)
+        _call(similarity_groups, a, 0.4, 0.02)
+    elif which == "best":
+        assert 0 <= CURVE.best_efficiency_flow() <= Q[-1]
+    else:
+        try:
+            write_curves_report(a, tmp_path_factory.mktemp("r") / "r.html")
+        except wb.WorkbenchError as exc:
+            assert str(exc)

@@ -42,6 +42,10 @@ def test_groups_of_a_perfect_gas_against_hand_formulas():
     assert g.specific_volume_ratio == pytest.approx(P2 * T1 / (P1 * T2), rel=2e-3)
     assert g.power == pytest.approx(rho1 * q * head / eta, rel=4e-3)
     assert result.within_limits
+    # a section of three such impellers: mu_p = W_p / (3 U^2) (PTC 10: sum of U^2)
+    three = wb.compressor_similarity(cond, cond, diameter=D, width=B, impellers=3)
+    assert three.test.work_coefficient == pytest.approx(g.work_coefficient / 3, rel=1e-12)
+    assert three.converted.polytropic_head == pytest.approx(result.converted.polytropic_head)
 
 
 def test_conversion_at_equal_flow_coefficient_closed_form():

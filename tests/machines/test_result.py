@@ -65,3 +65,13 @@ def test_wet_outlet_quality():
     d = r.to_dict()
     assert 0.8 < d["outlet_quality"] < 1.0
     assert 0.7 < d["isentropic_outlet_quality"] < d["outlet_quality"]
+
+
+def test_turbine_pressure_ratio_is_inlet_over_outlet():
+    # Pressure ratios are quoted higher over lower pressure for every machine (common
+    # practice; the description of workbench.fields.FIELDS["pressure_ratio"]): a turbine's is
+    # inlet over outlet, 40 bar / 10 bar = 4, in the result and in its flat dict.
+    steam = wb.Fluid("Water", backend="IF97")
+    r = wb.turbine(steam.state(P=40e5, T=673.15), P_out=10e5, isentropic_efficiency=0.8)
+    assert r.pressure_ratio == pytest.approx(4.0, rel=1e-12)
+    assert r.to_dict()["pressure_ratio"] == r.pressure_ratio

@@ -44,7 +44,7 @@ _ACCEPTANCE = {"test_flow", "test_head", "test_speed", "rated_speed", "guarantee
                "guarantee_head", "guarantee_efficiency", "guarantee_power", "test_power",
                "test_efficiency", "grade", "density", "specified_density", "fit", "degree"}
 _SIMILARITY = {"test", "specified", "diameter", "width", "test_type", "method",
-               "reynolds_correction", "roughness", "limits", "uncertainties"}
+               "reynolds_correction", "roughness", "limits", "uncertainties", "impellers"}
 
 
 @dataclass(frozen=True, eq=False)
@@ -81,10 +81,11 @@ def _section(data, name, allowed, required=()):
     unknown = sorted(str(k) for k in data if k not in allowed)
     if unknown:
         raise CaseFileError(f"{name}: unknown keys {', '.join(unknown)[:200]}")
-    missing = [k for k in required if k not in data]
+    given = {k: v for k, v in data.items() if v is not None}  # null: not given
+    missing = [k for k in required if k not in given]
     if missing:
         raise CaseFileError(f"{name} lacks {', '.join(missing)}")
-    return {k: v for k, v in data.items() if v is not None}
+    return given
 
 
 def _built(name, build):

@@ -96,7 +96,7 @@ class PerformanceCurve:
     machine : {"pump", "fan", "compressor"}
         Machine kind; fixes the unit of ``head``.
     efficiency : sequence of float, optional
-        Efficiency at each flow [-], in (0, 1].
+        Efficiency at each flow [-], in [0, 1] (zero at a shut-off point).
     power : sequence of float, optional
         Power input at each flow [W], positive.
     npsh_required : sequence of float, optional
@@ -162,9 +162,12 @@ class PerformanceCurve:
             if values is None:
                 continue
             array = _points(values, _KINDS[key], key.replace("_", " "), Q.size)
-            high = 1.0 if key == "efficiency" else np.inf
-            if not np.all((array > 0) & (array <= high)):
-                allowed = "(0, 1]" if key == "efficiency" else "above 0"
+            if key == "efficiency":  # zero allowed: a datasheet's shut-off point
+                ok = np.all((array >= 0) & (array <= 1.0))
+            else:
+                ok = np.all(array > 0)
+            if not ok:
+                allowed = "[0, 1]" if key == "efficiency" else "above 0"
                 raise InputError(f"{key.replace('_', ' ')} must lie in {allowed} at every "
                                  f"point; got {array.min():g} .. {array.max():g}")
             data[key] = array

@@ -6,7 +6,7 @@ inlet volume flow q, the polytropic head W_p and the inlet state (ASME PTC 10-19
 section 5 and nomenclature, recalled from memory)::
 
     flow coefficient            phi   = q / (omega r^3)     (= q / (2 pi N r^3), N in rev/s)
-    polytropic work coefficient mu_p  = W_p / U^2
+    polytropic work coefficient mu_p  = W_p / (z U^2)     (z impellers of the tip speed U)
     machine Mach number         Mm    = U / a_i             (a_i: speed of sound at the inlet)
     machine Reynolds number     Re_m  = U b / nu_i          (b: impeller exit width,
                                                              nu_i: inlet kinematic viscosity)
@@ -75,7 +75,7 @@ from ..fieldtest.uncertainty import (
 from ..machines import compressor
 from ..polytropic import polytropic_outlet
 from ..properties import Fluid
-from ..units import choice, flag, positive, to_si
+from ..units import choice, count, flag, positive, to_si
 
 #: Reading names whose instrument uncertainties can be propagated.
 READINGS = ("inlet_pressure", "inlet_temperature", "discharge_pressure",
@@ -353,8 +353,28 @@ def _head_efficiency(condition, method):
 
 
 def similarity_groups(condition: CompressorCondition, diameter: float, width: float,
-                      method: str = "schultz") -> SimilarityGroups:
-    """PTC 10 groups and performance of one condition (SI floats already validated)."""
+                      method: str = "schultz", impellers: int = 1) -> SimilarityGroups:
+    """PTC 10 groups and performance of one condition (module notes).
+
+    Parameters
+    ----------
+    condition : CompressorCondition or dict
+    diameter, width : float or Quantity
+        Impeller tip diameter and exit width [m].
+    method : {"schultz", "integration"}
+    impellers : int
+        Number of impellers of that tip diameter.
+
+    Returns
+    -------
+    SimilarityGroups
+    """
+    condition = _condition(condition, "condition")
+    diameter = to_si(diameter, "length", "impeller diameter", low=1e-3, high=20.0)
+    width = to_si(width, "length", "impeller width", low=1e-4, high=diameter / 2,
+                  high_open=True)
+    method = choice(method, ("schultz", "integration"), "polytropic method")
+    impellers = count(impellers, "number of impellers", low=1, high=20)
     inlet, discharge, m, head, eta = _head_efficiency(condition, method)
     omega = condition.speed
     r = diameter / 2
@@ -366,7 +386,7 @@ def similarity_groups(condition: CompressorCondition, diameter: float, width: fl
     return SimilarityGroups(
         volume_flow=condition.volume_flow, mass_flow=m, speed=omega, tip_speed=U,
         flow_coefficient=condition.volume_flow / (omega * r ** 3),
-        work_coefficient=head / U ** 2, machine_mach_number=U / a,
+        work_coefficient=head / (impellers * U ** 2), machine_mach_number=U / a,
         machine_reynolds_number=U * width / nu,
         specific_volume_ratio=discharge.rho / inlet.rho, polytropic_head=head,
         polytropic_efficiency=eta, power=m * head / eta, outlet_pressure=discharge.P,
@@ -400,6 +420,9 @@ def _predicted_discharge(inlet, head, eta, guess):
         return polytropic_outlet(inlet, P, eta)[1] - head
 
     lo, hi = inlet.P * 1.000001, max(guess, inlet.P * 1.01)
+    if miss(lo) >= 0:
+        raise ReadingsError(f"the converted polytropic head {head:.5g} J/kg is too small to "
+                            "predict a discharge pressure: check the test and specified speeds")
     for _ in range(40):
         if miss(hi) > 0:
             break
@@ -412,7 +435,7 @@ def _predicted_discharge(inlet, head, eta, guess):
 
 
 def _convert(test, specified_condition, diameter, width, roughness, method, correct,
-             discharge=True):
+             discharge=True, impellers=1):
     """Test groups converted to the specified inlet, gas and speed at equal phi."""
     gas = specified_condition.gas
     inlet = gas.state(P=specified_condition.inlet_pressure,
@@ -433,7 +456,7 @@ def _convert(test, specified_condition, diameter, width, roughness, method, corr
             raise ReadingsError(f"the Reynolds correction gives an efficiency {eta_new:.4g}")
         mu_p *= eta_new / eta
         eta = eta_new
-    head = mu_p * U ** 2
+    head = mu_p * impellers * U ** 2
     m = inlet.rho * q
     P2 = T2 = ratio = 0.0
     if discharge:
@@ -515,7 +538,7 @@ def _checks(test, spec, test_cond, spec_cond, test_type, limits, mach, user):
 
 def compressor_similarity(test, specified, *, diameter, width, test_type="2",
                           method="schultz", reynolds_correction=False,
-                          roughness=3.2e-6, limits=None, uncertainties=None
+                          roughness=3.2e-6, limits=None, uncertainties=None, impellers=1
                           ) -> CompressorSimilarityResult:
     """Judge a compressor test's similarity and convert it to specified conditions (PTC 10).
 
@@ -543,6 +566,9 @@ def compressor_similarity(test, specified, *, diameter, width, test_type="2",
     limits : dict, optional
         Replace default limits: ``{"flow_coefficient": (0.96, 1.04), "machine_mach_number":
         (low, high departure), ...}``.
+    impellers : int
+        Number of impellers z of the section, all of the tip diameter given (the work
+        coefficient is W_p / (z U^2)); default 1.
     uncertainties : dict, optional
         Reading name (``inlet_pressure``, ``inlet_temperature``, ``discharge_pressure``,
         ``discharge_temperature``, ``volume_flow``, ``speed``) -> (systematic, random)
@@ -579,11 +605,12 @@ def compressor_similarity(test, specified, *, diameter, width, test_type="2",
     method = choice(method, ("schultz", "integration"), "polytropic method")
     correct = flag(reynolds_correction, "reynolds_correction")
     eps = to_si(roughness, "length", "impeller roughness", low=0.0, high=1e-3)
+    z = count(impellers, "number of impellers", low=1, high=20)
     lims, mach, user = _limits(limits)
-    t = similarity_groups(test_c, D, b, method)
-    s = similarity_groups(spec_c, D, b, method)
+    t = similarity_groups(test_c, D, b, method, z)
+    s = similarity_groups(spec_c, D, b, method, z)
     checks = _checks(t, s, test_c, spec_c, test_type, lims, mach, user)
-    converted = _convert(t, spec_c, D, b, eps, method, correct)
+    converted = _convert(t, spec_c, D, b, eps, method, correct, impellers=z)
     cautions = []
     if correct and not 1e5 <= t.machine_reynolds_number <= 1e9:
         cautions.append("the Reynolds correction is applied outside the Reynolds numbers it "
@@ -592,14 +619,14 @@ def compressor_similarity(test, specified, *, diameter, width, test_type="2",
         cautions.append("a Type 1 test is run on the specified gas: the gases differ")
     report = None
     if uncertainties is not None:
-        report = _uncertainty(test_c, spec_c, D, b, eps, method, correct, uncertainties)
+        report = _uncertainty(test_c, spec_c, D, b, eps, method, correct, uncertainties, z)
     return CompressorSimilarityResult(
         test_type=test_type, method=method, test=t, specified=s, converted=converted,
         checks=checks, reynolds_correction=correct, uncertainty=report,
         cautions=tuple(cautions))
 
 
-def _uncertainty(test_c, spec_c, D, b, eps, method, correct, uncertainties):
+def _uncertainty(test_c, spec_c, D, b, eps, method, correct, uncertainties, z):
     if not isinstance(uncertainties, dict):
         raise InputError("uncertainties must be a dict of reading name -> (systematic, "
                          "random)")
@@ -623,8 +650,9 @@ def _uncertainty(test_c, spec_c, D, b, eps, method, correct, uncertainties):
         for record in frame.to_dict("records"):
             try:
                 cond = CompressorCondition(test_c.gas, **record)
-                t = similarity_groups(cond, D, b, method)
-                conv = _convert(t, spec_c, D, b, eps, method, correct, discharge=False)
+                t = similarity_groups(cond, D, b, method, z)
+                conv = _convert(t, spec_c, D, b, eps, method, correct, discharge=False,
+                                impellers=z)
                 rows.append({**{r: getattr(conv, r) for r in results}, "status": "ok",
                              "message": ""})
             except WorkbenchError as exc:

@@ -446,6 +446,9 @@ def _point(curve, system, Q, K, H, n_intersections) -> OperatingPoint:
                         f"{curve.max_flow:.5g} m**3/s")
     rho_g = system.density * _G
     eta = curve.efficiency(Q) if "efficiency" in curve.quantities else None
+    if eta is not None and not 0 < eta <= 1:
+        cautions.append(f"the efficiency fit gives {eta:.3g} at this flow, outside (0, 1]: the "
+                        "fit is not usable there")
     if "power" in curve.quantities:
         power = curve.power(Q)
     elif eta is not None and eta > 0:

@@ -74,7 +74,7 @@ from .options import (
     batch_options,
     result_columns,
 )
-from .readers import PROBLEM_COLUMN, _numbers
+from .readers import PROBLEM_COLUMN, column_numbers
 
 _LABEL = {
     "inlet_pressure": "inlet pressure", "outlet_pressure": "outlet pressure",
@@ -315,7 +315,7 @@ def _readings(series, name, source, status, message):
     if pd.api.types.is_numeric_dtype(series) and not pd.api.types.is_bool_dtype(series):
         return series.to_numpy(dtype=float, na_value=np.nan)
     # text in a number column of a frame that did not come through the readers
-    values, notes = _numbers(series, name, source)
+    values, notes = column_numbers(series, name, source)
     for i, note in enumerate(notes):
         if note and "not a number" in note and status[i] == STATUS_OK:
             status[i], message[i] = STATUS_NOT_NUMBER, note

@@ -98,19 +98,19 @@ class AffinityCorrection:
     Attributes
     ----------
     speed_ratio : numpy.ndarray
-        N_r / N [-].
-    volume_flow : numpy.ndarray
-        Q (N_r/N) [m^3/s].
-    head : numpy.ndarray
-        H (N_r/N)^2, in the head's units.
-    power : numpy.ndarray
-        P (N_r/N)^3 [W].
+        N_r / N [-]; NaN when not defined (a speed reading that is not positive).
+    volume_flow : numpy.ndarray or None
+        Q (N_r/N) [m^3/s]; None when no volume flow was given.
+    head : numpy.ndarray or None
+        H (N_r/N)^2, in the head's units; None when no head was given.
+    power : numpy.ndarray or None
+        P (N_r/N)^3 [W]; None when no power was given.
     """
 
     speed_ratio: np.ndarray
-    volume_flow: np.ndarray
-    head: np.ndarray
-    power: np.ndarray
+    volume_flow: np.ndarray | None
+    head: np.ndarray | None
+    power: np.ndarray | None
 
     def to_dict(self) -> dict:
         """Fields as a dict of arrays."""
@@ -128,7 +128,8 @@ def affinity_correction(speed, rated_speed, volume_flow=None, head=None,
     rated_speed : float
         Rated speed, positive.
     volume_flow, head, power : float or array_like, optional
-        Measured volume flow [m^3/s], head [J/kg or m], power [W]; NaN where not given.
+        Measured volume flow [m^3/s], head [J/kg or m], power [W] (arrays or Quantities,
+        NaN marks a missing reading); their corrected values are None when not given.
 
     Returns
     -------
@@ -150,7 +151,7 @@ def affinity_correction(speed, rated_speed, volume_flow=None, head=None,
 
     def scaled(values, power_of, kind, name):
         if values is None:
-            return np.full(np.shape(ratio), np.nan)
+            return None
         if kind == "head" and isinstance(values, pint.Quantity) and values.check("[length]"):
             kind = "length"
         array = to_si_array(values, "specific_energy" if kind == "head" else kind, name)
@@ -162,7 +163,7 @@ def affinity_correction(speed, rated_speed, volume_flow=None, head=None,
     fields = (ratio, scaled(volume_flow, 1, "volume_flow", "volume flow"),
               scaled(head, 2, "head", "head"), scaled(power, 3, "power", "power"))
     if np.ndim(getattr(speed, "magnitude", speed)) == 0:  # a single reading: 0-d arrays
-        fields = tuple(np.asarray(f).reshape(()) for f in fields)
+        fields = tuple(None if f is None else np.asarray(f).reshape(()) for f in fields)
     return AffinityCorrection(*fields)
 
 

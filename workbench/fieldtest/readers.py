@@ -208,9 +208,46 @@ def convert_values(values, unit: str, kind: str, name: str,
     return converted
 
 
-def _numbers(column: pd.Series, name: str, source: str, decimal: str = ".",
-             thousands: str | None = None) -> tuple[np.ndarray, list]:
-    """Numeric values of a column and a per-row problem text ('' when fine)."""
+def column_numbers(column: pd.Series, name: str, source: str, decimal: str = ".",
+                   thousands: str | None = None) -> tuple[np.ndarray, list]:
+    """Numbers of a column of readings and, per row, what is wrong with its cell.
+
+    Text cells are stripped and read with the given separators; missing, empty, non-numeric
+    and infinite cells become NaN and their row gets a problem text naming the reading, the
+    cell and the column.  Nothing is refused: a bad cell spoils its row only.
+
+    Parameters
+    ----------
+    column : pandas.Series
+        The raw cells (numbers or text) of one column.
+    name : str
+        Reading name for the messages (``"inlet_pressure"``).
+    source : str
+        Name of the column in the file, for the messages.
+    decimal : str, default "."
+        Decimal separator of text cells.
+    thousands : str, optional
+        Thousands separator of text cells (removed before reading).
+
+    Returns
+    -------
+    values : numpy.ndarray
+        The numbers (float), NaN where a cell is missing or bad.
+    problems : list of str
+        Per row, ``""`` when the cell is a finite number, else why it is not.
+
+    References
+    ----------
+    RFC 4180, Common Format and MIME Type for Comma-Separated Values (CSV) Files.
+
+    Examples
+    --------
+    >>> import pandas as pd
+    >>> values, problems = column_numbers(pd.Series(["1,5", "", "x"]), "power", "P",
+    ...                                   decimal=",")
+    >>> float(values[0]), problems[1]
+    (1.5, "power reading (column 'P') is missing")
+    """
     text = column
     if not pd.api.types.is_numeric_dtype(column):
         text = column.map(lambda c: c.strip() if isinstance(c, str) else c)
@@ -290,7 +327,7 @@ def readings_from_frame(raw: pd.DataFrame, column_map: dict, units: dict, *,
     columns = {}
     problems = [[] for _ in range(len(raw))]
     for name, source in column_map.items():
-        values, notes = _numbers(raw[source], name, source, decimal, thousands)
+        values, notes = column_numbers(raw[source], name, source, decimal, thousands)
         kind = READING_KINDS[name][0]
         si = convert_values(values, units[name], kind, name, ambient, column=source)
         huge = np.flatnonzero(~np.isfinite(si) & ~np.isnan(values)
@@ -578,5 +615,8 @@ def read_readings(path, column_map: dict, units: dict, *, sheet_name=0,
                                decimal=decimal, thousands=thousands)
 
 
+#: Former private name of :func:`column_numbers` (kept for modules not yet moved to it).
+_numbers = column_numbers
+
 __all__ = ["READING_KINDS", "PROBLEM_COLUMN", "MAX_FILE_BYTES", "read_readings", "read_table",
-           "readings_from_frame", "convert_values", "parse_unit"]
+           "readings_from_frame", "convert_values", "parse_unit", "column_numbers"]

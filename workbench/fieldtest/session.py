@@ -39,10 +39,7 @@ ASME PTC 19.1-2013, Test Uncertainty.
 
 from __future__ import annotations
 
-import inspect
-import io
 import math
-import pathlib
 from dataclasses import dataclass, field, replace
 
 import numpy as np
@@ -51,7 +48,7 @@ import pandas as pd
 from .. import units
 from ..errors import CaseFileError, InputError, ReadingsError, WorkbenchError
 from ..properties import Fluid
-from . import setup_file
+from . import readers, setup_file
 from .batch import evaluate
 from .design import DesignPoint, compare_with_design
 from .readers import READING_KINDS, convert_values, readings_from_frame
@@ -129,26 +126,10 @@ def read_table(name: str, content: bytes, *, limit: int = UPLOAD_LIMIT_BYTES) ->
                             f"accepted is {limit / 2**20:.0f} MiB; split the export into "
                             "smaller files")
     content = bytes(content)
-    if not content.strip():
-        raise ReadingsError(f"file {name!r} is empty")
-    excel = pathlib.Path(name).suffix.lower() in EXCEL_SUFFIXES
-    if not excel and b"\x00" in content[:65536]:
-        raise ReadingsError(f"file {name!r} is not a text (CSV) file: save the logger export "
-                            "as CSV or as an Excel .xlsx workbook")
-    try:
-        if excel:
-            raw = pd.read_excel(io.BytesIO(content), dtype=object, keep_default_na=False,
-                                na_values=[""])
-        else:
-            raw = pd.read_csv(io.BytesIO(content), dtype=str, keep_default_na=False,
-                              sep=None, engine="python")
-    except Exception:  # noqa: BLE001 - any parser failure becomes a message
-        kind = "an Excel workbook" if excel else "a CSV table"
-        raise ReadingsError(f"file {name!r} could not be read as {kind}") from None
-    raw.columns = [str(c).strip() for c in raw.columns]
-    if len(raw) == 0:
-        raise ReadingsError(f"file {name!r} has a header but no rows of readings")
-    return raw
+    # the one readings-file reader (binary data, damaged or oversized workbooks, repeated
+    # headers are refused there by file name); the delimiter of a CSV is detected
+    csv = {} if content.startswith(b"PK\x03\x04") else {"sep": None, "engine": "python"}
+    return readers.read_table(content, file_name=name, max_bytes=limit, **csv)
 
 
 def parse_fluid(text: str, backend: str = "HEOS") -> Fluid:
@@ -217,8 +198,19 @@ def default_tolerance(raw: pd.DataFrame, column: str, unit: str, name: str,
     -------
     float
         The tolerance, a difference in ``unit`` (0 when the column holds no number).
+
+    Examples
+    --------
+    >>> raw = pd.DataFrame({"p1": ["18.9", "19.1", "19.0"]})
+    >>> default_tolerance(raw, "p1", "bar(a)", "inlet_pressure")
+    0.19
     """
-    kind = READING_KINDS[name][0]
+    kind, unit = _reading_and_unit(name, unit)
+    if not isinstance(raw, pd.DataFrame) or not isinstance(column, str) or \
+            column not in raw.columns:
+        raise InputError(f"column {column!r} of the {name.replace('_', ' ')} is not in the "
+                         "readings file")
+    ambient_pressure = units.positive(ambient_pressure, "pressure", "ambient pressure")
     per_unit = difference_to_si(1.0, unit, kind, name)
     if kind == "temperature":
         return _two_digits(STEADY_DEFAULTS["temperature"] / per_unit)
@@ -250,18 +242,33 @@ def tolerances_to_si(typed: dict, unit_texts: dict) -> dict:
     InputError
         Naming the reading and the value as typed, with its unit, when it is negative or not
         a finite number.
+
+    Examples
+    --------
+    >>> tolerances_to_si({"inlet_pressure": 0.2}, {"inlet_pressure": "bar(g)"})
+    {'inlet_pressure': 20000.0}
     """
+    typed = _mapping(typed, "steady-state tolerances")
+    unit_texts = _mapping(unit_texts, "units of the tolerances")
     out = {}
     for name, value in typed.items():
-        kind = READING_KINDS[name][0]
-        shown = setup_file.tolerance_unit(unit_texts[name], kind)
+        kind, unit = _reading_and_unit(name, unit_texts.get(name))
+        shown = setup_file.tolerance_unit(unit, kind)
         label = f"steady-state tolerance of the {name.replace('_', ' ')} [{shown}]"
         if isinstance(value, (int, float)) and not isinstance(value, bool) and value < 0:
             raise InputError(f"steady-state tolerance {value:g} {shown} of the "
                              f"{name.replace('_', ' ')} must be zero or positive")
         value = units.not_negative(value, "dimensionless", label)
-        out[name] = difference_to_si(value, unit_texts[name], kind, name)
+        out[name] = difference_to_si(value, unit, kind, name)
     return out
+
+
+def _reading_and_unit(name, unit) -> tuple[str, str]:
+    """(kind, unit) of a reading name and the unit text of its column, both checked."""
+    name = units.choice(name, READING_KINDS, "reading name")
+    kind = READING_KINDS[name][0]
+    return kind, units.choice(unit, UNIT_CHOICES[kind],
+                              f"unit of the {name.replace('_', ' ')} column")
 
 
 def _two_digits(value: float) -> float:
@@ -337,12 +344,12 @@ class SessionSetup:
             high=setup_file.MAX_WINDOW))
         check(self, "column_map", _mapping(self.column_map, "column map"))
         check(self, "units", _mapping(self.units, "units"))
+        check(self, "steady_tolerances", _mapping(self.steady_tolerances,
+                                                  "steady-state tolerances"))
         for name, column in self.column_map.items():
             units.choice(name, READING_KINDS, "reading name of the column map")
             units.text(column, f"column of the {name.replace('_', ' ')}", max_length=1000)
-            kind = READING_KINDS[name][0]
-            units.choice(self.units.get(name), UNIT_CHOICES[kind],
-                         f"unit of the {name.replace('_', ' ')} column")
+            _reading_and_unit(name, self.units.get(name))
         check(self, "steady_tolerances", {
             name: units.not_negative(self.steady_tolerances.get(name), "dimensionless",
                                      f"steady-state tolerance of the {name.replace('_', ' ')}")
@@ -626,7 +633,7 @@ def evaluate_session(raw: pd.DataFrame, setup: SessionSetup, *, progress=None) -
     ...                        "mass_flow": 0.02})
     >>> result = evaluate_session(raw, setup)
     >>> round(result.summary()["mean_isentropic_efficiency"], 3)
-    0.926
+    0.916
     """
     if not isinstance(setup, SessionSetup):
         raise InputError(f"setup must be a SessionSetup, not {type(setup).__name__}")
@@ -676,10 +683,7 @@ def _reporter(progress, total: int):
 
 def _evaluate_rows(readings, setup, fluid, report):
     options = dict(mechanical_efficiency=setup.mechanical_efficiency, results=SESSION_RESULTS)
-    # ONE place for the batch's progress callback (an optional keyword of evaluate that the
-    # kernel adds): passed only when this evaluate has it.  Lead: drop the check at merge.
-    if "progress" in inspect.signature(evaluate).parameters:
-        options["progress"] = lambda done, _total: report(done)
+    options["progress"] = lambda done, _total: report(done)
     return evaluate(readings, setup.machine, fluid, **options)
 
 

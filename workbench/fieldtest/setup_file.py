@@ -42,7 +42,7 @@ from contextlib import contextmanager
 
 from .. import units
 from ..errors import CaseFileError, InputError
-from ..machine_case import parse_case_json, read_case_text
+from ..machine_case import read_json_source
 from .readers import READING_KINDS, convert_values, parse_unit
 
 FORMAT_NAME = "turbo-workbench field-test setup"
@@ -92,7 +92,13 @@ DESIGN_KEYS = ("isentropic_efficiency", "shaft_power_W", "inlet_volume_flow_m3_p
 
 
 def tolerance_unit(unit: str, kind: str) -> str:
-    """Unit of a difference of readings taken in ``unit`` (``bar(g)`` -> ``bar``)."""
+    """Unit of a difference of readings taken in ``unit`` (``bar(g)`` -> ``bar``).
+
+    Examples
+    --------
+    >>> tolerance_unit("bar(g)", "pressure"), tolerance_unit("degC", "temperature")
+    ('bar', '°C')
+    """
     if kind == "pressure":
         text = parse_unit(unit, kind)[0]
     else:
@@ -116,6 +122,11 @@ def difference_to_si(value: float, unit: str, kind: str, name: str) -> float:
     -------
     float
         The difference in SI units [Pa, K, kg/s, m^3/s, W; rev/min for speed].
+
+    Examples
+    --------
+    >>> round(difference_to_si(1.8, "degF", "temperature", "outlet_temperature"), 12)
+    1.0
     """
     zero, shifted = convert_values([0.0, float(value)], unit, kind, name)
     return float(shifted - zero)
@@ -348,12 +359,11 @@ def read_setup(source, file_columns=None, file_name: str = "") -> dict:
     """Read and validate a setup from a dict, a JSON text or bytes, or a :class:`pathlib.Path`.
 
     A ``str`` is always the JSON text itself, never opened as a file name.  The text is
-    parsed by the project's safe JSON reader (:func:`workbench.machine_case.parse_case_json`:
-    size, nesting depth, NaN and Infinity checked).  Returns the result of
+    parsed by the project's one safe JSON reader (:func:`workbench.casefiles.read_json`:
+    size, nesting depth, huge integers, NaN and Infinity checked).  Returns the result of
     :func:`validate_setup` (``file_columns`` and ``file_name`` are passed on).
     """
-    data = source if isinstance(source, dict) else parse_case_json(read_case_text(source),
-                                                                    "setup")
+    data = source if isinstance(source, dict) else read_json_source(source, "setup")
     return validate_setup(data, file_columns, file_name)
 
 

@@ -361,7 +361,11 @@ def monte_carlo_uncertainty(readings: dict, uncertainties: dict, results=(
     ok = (out["status"] == "ok").to_numpy() if "status" in out.columns else np.ones(samples, bool)
     n_ok = int(ok.sum())
     if n_ok < 10:
-        raise InputError(f"only {n_ok} of {samples} Monte Carlo draws evaluated")
+        first = ""
+        if "message" in out.columns and (~ok).any():
+            first = f"; the first that did not: {out['message'].to_numpy()[~ok][0]}"
+        raise InputError(f"only {n_ok} of {samples} Monte Carlo draws of the readings "
+                         f"evaluated (at least 10 needed){first}")
     mean, std, exp_, interval = {}, {}, {}, {}
     for r in results:
         col = _column(out, r, samples)[ok]

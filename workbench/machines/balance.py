@@ -113,7 +113,8 @@ class Balance(NamedTuple):
     isentropic_head : float or numpy.ndarray
         |h2s - h1| on the chosen basis [J/kg].
     pressure_ratio : float or numpy.ndarray
-        Outlet over inlet static pressure [-].
+        Higher over lower static pressure [-]: outlet over inlet for a compressor, pump or
+        fan, inlet over outlet for a turbine (common practice).
     refusal : int or numpy.ndarray
         :data:`OK` (0) where the entry is valid, else the code of the first failed check.
     """
@@ -333,6 +334,8 @@ def _steady_flow(kind, inlet, outlet, isentropic, mass_flow, velocity_in, veloci
         chosen, head = eff_total, abs(isentropic0.h - inlet0.h)
     else:
         chosen, head = eff_static, abs(isentropic.h - inlet.h)
+    # quoted higher over lower pressure for every machine (common practice)
+    ratio = outlet.P / inlet.P if raises else inlet.P / outlet.P
     checks = _pressure_checks(kind, inlet.P, outlet.P, inlet.phase)
     if not scalar:
         found = inlet.valid & outlet.valid & isentropic.valid
@@ -342,7 +345,7 @@ def _steady_flow(kind, inlet, outlet, isentropic, mass_flow, velocity_in, veloci
     checks += [(NO_WORK, work > 0), (WRONG_ENTHALPY_SIDE, chosen > 0),
                (EFFICIENCY_ABOVE_ONE, chosen <= 1 + EFFICIENCY_TOLERANCE)]
     return Balance(work, fluid_power, shaft_power, dh, dke, g_dz, q, eff_static, eff_total,
-                   eff_ts, chosen, head, outlet.P / inlet.P, _first_refusal(checks, scalar))
+                   eff_ts, chosen, head, ratio, _first_refusal(checks, scalar))
 
 
 def refusal_error(code: int, kind: str, inlet, P_out: float, *, basis: str = "static",

@@ -209,6 +209,15 @@ def heat_exchanger(hot_inlet: State, hot_mass_flow, cold_inlet: State, cold_mass
     References
     ----------
     Steady-flow energy equation (common practice); TEMA Standards (terminal differences).
+
+    Examples
+    --------
+    >>> import workbench as wb
+    >>> water = wb.Fluid("Water")
+    >>> r = heat_exchanger(water.state(P=5e5, T=363.15), 5.0, water.state(P=4e5, T=293.15),
+    ...                    8.0, hot_outlet_temperature=323.15)
+    >>> round(r.duty), round(r.log_mean_temperature_difference, 2)
+    (838049, 36.97)
     """
     hot_inlet = checks.state(hot_inlet, "hot inlet")
     cold_inlet = checks.state(cold_inlet, "cold inlet")
@@ -382,6 +391,16 @@ def cooler(inlet: State, mass_flow, outlet_temperature, *, pressure_drop=0.0,
     References
     ----------
     Steady-flow energy equation (common practice).
+
+    Examples
+    --------
+    >>> import workbench as wb
+    >>> air = wb.Fluid("Air")
+    >>> r = cooler(air.state(P=3e5, T=420.0), 2.0, 308.15,
+    ...            cooling_water_inlet_temperature=298.15,
+    ...            cooling_water_outlet_temperature=308.15)
+    >>> round(r.duty), round(r.cooling_water_mass_flow, 3)
+    (226580, 5.421)
     """
     inlet = checks.state(inlet, "cooler inlet")
     m = checks.positive(mass_flow, "mass_flow", "cooler mass flow")
@@ -399,6 +418,7 @@ def cooler(inlet: State, mass_flow, outlet_temperature, *, pressure_drop=0.0,
         raise SpecificationError("give both cooling water temperatures (inlet and outlet) "
                                  "or neither")
     P2, dP = _outlet_pressure("cooler", inlet, pressure_drop)
+    Pw = checks.positive(cooling_water_pressure, "pressure", "cooling water pressure")
     if tw1 is not None:
         if not tw2 > tw1:
             raise InputError(f"cooling water outlet temperature {tw2:.6g} K must be above its "
@@ -412,7 +432,6 @@ def cooler(inlet: State, mass_flow, outlet_temperature, *, pressure_drop=0.0,
             raise InputError(f"cooling water outlet temperature {tw2:.6g} K must be below the "
                              f"cooler inlet temperature {inlet.T:.6g} K (hot end difference "
                              "above 0 K; zero needs an infinite exchanger area)")
-        Pw = checks.positive(cooling_water_pressure, "pressure", "cooling water pressure")
         water = _water()
         w_in, w_out = water.state_PT(Pw, tw1), water.state_PT(Pw, tw2)
     outlet = inlet.fluid.state_PT(P2, T2)

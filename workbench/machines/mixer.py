@@ -177,6 +177,14 @@ def mixer(streams: Sequence, *, P_out=None, heat_loss=0.0) -> MixerResult:
     References
     ----------
     Steady-flow mass and energy balances (common practice).
+
+    Examples
+    --------
+    >>> import workbench as wb
+    >>> water = wb.Fluid("Water")
+    >>> r = mixer([(water.state(P=5e5, T=293.15), 2.0), (water.state(P=4e5, T=353.15), 1.0)])
+    >>> round(r.outlet.T - 273.15, 2)
+    40.03
     """
     items = _listed(streams, "mixer streams must be a list of (State, mass flow) pairs")
     if len(items) < 2:
@@ -250,6 +258,13 @@ def splitter(inlet: State, mass_flow, *, fractions=None, branch_mass_flows=None)
     References
     ----------
     Steady-flow mass balance (common practice).
+
+    Examples
+    --------
+    >>> import workbench as wb
+    >>> water = wb.Fluid("Water")
+    >>> splitter(water.state(P=5e5, T=293.15), 10.0, fractions=[0.25, None]).branch_mass_flows
+    (2.5, 7.5)
     """
     inlet = checks.state(inlet, "splitter inlet")
     m = checks.positive(mass_flow, "mass_flow", "splitter mass flow")
@@ -263,7 +278,8 @@ def splitter(inlet: State, mass_flow, *, fractions=None, branch_mass_flows=None)
     given = _listed(given, f"the splitter {what} must be a list with one value per branch")
     values = [None if v is None else flow_of(i, v, m) for i, v in enumerate(given, start=1)]
     if len(values) < 2:
-        raise InputError(f"a splitter needs at least 2 branches, got {len(values)}")
+        raise InputError(f"the splitter {what} list {len(values)} value(s): a splitter needs "
+                         "at least 2 branches")
     missing = [i for i, v in enumerate(values) if v is None]
     if len(missing) > 1:
         raise SpecificationError(f"{len(missing)} {what} are missing; at most one can be left "

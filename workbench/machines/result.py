@@ -23,7 +23,7 @@ from .. import fields
 from ..polytropic import polytropic_efficiency as _path_efficiency
 from ..polytropic import schultz
 from ..properties import State
-from .balance import STANDARD_GRAVITY, temperature_sensitivity
+from .balance import RAISES_PRESSURE, STANDARD_GRAVITY, temperature_sensitivity
 
 #: Fields of :meth:`MachineResult.to_dict`, in order (names of :data:`workbench.fields.FIELDS`).
 #: The isentropic outlet's pressure and entropy are the outlet pressure and inlet entropy.
@@ -144,8 +144,14 @@ class MachineResult:
 
     @property
     def pressure_ratio(self) -> float:
-        """Outlet over inlet static pressure [-]."""
-        return self.outlet.P / self.inlet.P
+        """Higher over lower static pressure [-]: outlet over inlet for a compressor, pump or
+        fan, inlet over outlet for a turbine (an expansion ratio above 1; common practice).
+
+        Earlier versions gave outlet over inlet for every machine (below 1 for a turbine).
+        """
+        if RAISES_PRESSURE[self.kind]:
+            return self.outlet.P / self.inlet.P
+        return self.inlet.P / self.outlet.P
 
     @property
     def inlet_volume_flow(self) -> float:

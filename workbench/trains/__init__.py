@@ -12,10 +12,12 @@
 Pressure ratios are quoted higher over lower pressure for every machine (outlet over inlet
 for a compressor or pump, inlet over outlet for a turbine).  Train totals are shaft powers
 and named so (``total_shaft_power``, ``absorbed_shaft_power``...); a machine result's
-``power`` is its fluid power.
+``power`` is its fluid power.  Flat dicts and tables use the plain field names of
+:data:`workbench.fields.FIELDS` as keys (``pressure``, ``mass_flow``, ``shaft_power``),
+as every other result does; ``headers=True`` gives labels with units instead.
 """
 
-from .core import MACHINE_FIELDS, STATION_FIELDS, Train, TrainResult, run_train
+from .core import MACHINE_FIELDS, STATION_FIELDS, TOTAL_FIELDS, Train, TrainResult, run_train
 from .extraction import ExtractionTurbineResult, extraction_turbine
 from .intercooled import STAGE_RATIO_OPTIONS, IntercooledCompressorResult, intercooled_compressor
 from .steps import (
@@ -37,4 +39,5 @@ __all__ = ["Admission", "CompressorStage", "Cooler", "Extraction", "PipeRun", "P
            "PumpStage", "Station", "StepResult", "ThrottleValve", "Train", "TrainResult",
            "TurbineSection", "run_train", "IntercooledCompressorResult",
            "ExtractionTurbineResult", "intercooled_compressor", "extraction_turbine",
-           "MACHINE_KINDS", "MACHINE_FIELDS", "STATION_FIELDS", "STAGE_RATIO_OPTIONS"]
+           "MACHINE_KINDS", "MACHINE_FIELDS", "STATION_FIELDS", "TOTAL_FIELDS",
+           "STAGE_RATIO_OPTIONS"]

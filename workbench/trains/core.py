@@ -21,6 +21,7 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass
 
+from .. import fields
 from ..errors import InputError, SpecificationError, WorkbenchError
 from ..fields import FIELDS
 from ..machines.mixer import MASS_BALANCE_TOLERANCE
@@ -29,50 +30,36 @@ from ..properties import State
 from ..units import positive
 from .steps import MACHINE_KINDS, Station, StepResult, check_state
 
-#: Key suffix of each SI unit in flat dicts and table columns ("pressure" -> "pressure_Pa").
-_SUFFIX = {"": "", "Pa": "Pa", "K": "K", "J/kg": "J_per_kg", "J/(kg*K)": "J_per_kgK",
-           "kg/s": "kg_per_s", "W": "W", "m**3/s": "m3_per_s", "kg/m**3": "kg_per_m3",
-           "m/s": "m_per_s", "m": "m"}
-
 #: Fields of the station table, in order (see :data:`workbench.fields.FIELDS`).
 STATION_FIELDS = ("pressure", "temperature", "enthalpy", "entropy", "quality", "mass_flow")
 #: Fields of the machine table, in order.
 MACHINE_FIELDS = ("inlet_pressure", "outlet_pressure", "pressure_ratio", "inlet_temperature",
                   "outlet_temperature", "mass_flow", "isentropic_efficiency", "specific_work",
                   "power", "shaft_power", "outlet_quality")
-
-
-def column(name: str) -> str:
-    """Flat-dict key of a result field: its name and SI unit (``"pressure_Pa"``)."""
-    f = FIELDS[name]
-    suffix = _SUFFIX[f.unit]
-    return f"{f.name}_{suffix}" if suffix else f.name
+#: Fields of :meth:`TrainResult.totals`, in order (shaft powers, heat and flows).
+TOTAL_FIELDS = ("absorbed_shaft_power", "delivered_shaft_power", "net_shaft_power",
+                "heat_removed", "cooling_water_mass_flow", "inlet_mass_flow",
+                "outlet_mass_flow", "extracted_mass_flow", "admitted_mass_flow")
 
 
 def station_row(station: Station) -> dict:
-    """Flat dict of a station, keys from :data:`STATION_FIELDS` (SI units)."""
+    """Flat dict of a station: ``station``, ``role``, the :data:`STATION_FIELDS` under their
+    field names (SI units) and ``phase``."""
     st = station.state
     values = {"pressure": st.P, "temperature": st.T, "enthalpy": st.h, "entropy": st.s,
               "quality": st.quality, "mass_flow": station.mass_flow}
     return {"station": station.name, "role": station.role,
-            **{column(n): values[n] for n in STATION_FIELDS}, "phase": st.phase}
+            **{n: values[n] for n in STATION_FIELDS}, "phase": st.phase}
 
 
 def machine_row(result: MachineResult) -> dict:
-    """Flat dict of a machine's main numbers, keys from :data:`MACHINE_FIELDS`.
+    """Flat dict of a machine's main numbers: ``kind``, then the :data:`MACHINE_FIELDS`
+    under their field names (SI units), as in :meth:`MachineResult.to_dict`.
 
     The pressure ratio is higher over lower pressure for every machine (outlet over inlet
     for a compressor or pump, inlet over outlet for a turbine), as the field describes.
     """
-    p1, p2 = result.inlet.P, result.outlet.P
-    values = {"inlet_pressure": p1, "outlet_pressure": p2,
-              "pressure_ratio": max(p1, p2) / min(p1, p2),
-              "inlet_temperature": result.inlet.T, "outlet_temperature": result.outlet.T,
-              "outlet_quality": result.outlet.quality}
-    row = {"kind": result.kind}
-    for name in MACHINE_FIELDS:
-        row[column(name)] = values[name] if name in values else getattr(result, name)
-    return row
+    return {"kind": result.kind, **fields.row(result, MACHINE_FIELDS)}
 
 
 def _summary(step: StepResult) -> dict:
@@ -90,8 +77,7 @@ def _frame(rows, columns, headers):
 
     frame = pd.DataFrame(rows, columns=columns).set_index(columns[0])
     if headers:
-        names = {column(n): FIELDS[n].header() for n in FIELDS}
-        frame = frame.rename(columns=names)
+        frame = frame.rename(columns={n: FIELDS[n].header() for n in columns if n in FIELDS})
     return frame
 
 
@@ -179,18 +165,13 @@ class TrainResult:
         return [s for s in self.stations if s.role == "main"][-1].state
 
     def totals(self) -> dict:
-        """The train's totals (SI units, keys end with their unit)."""
-        return {
-            "absorbed_shaft_power_W": self.absorbed_shaft_power,
-            "delivered_shaft_power_W": self.delivered_shaft_power,
-            "net_shaft_power_W": self.net_shaft_power,
-            "heat_removed_W": self.heat_removed,
-            "cooling_water_mass_flow_kg_per_s": self.cooling_water_mass_flow,
-            "inlet_mass_flow_kg_per_s": self.inlet_mass_flow,
-            "outlet_mass_flow_kg_per_s": self.outlet_mass_flow,
-            "extracted_mass_flow_kg_per_s": self.extracted_mass_flow,
-            "admitted_mass_flow_kg_per_s": self.admitted_mass_flow,
-        }
+        """The train's totals: the :data:`TOTAL_FIELDS` under their field names, SI units.
+
+        Earlier versions put the unit in the key (``net_shaft_power_W``,
+        ``extracted_mass_flow_kg_per_s``); units, labels and formats are now in
+        :data:`workbench.fields.FIELDS`, as for every result.
+        """
+        return fields.row(self, TOTAL_FIELDS)
 
     def to_dict(self) -> dict:
         """``{"stations": [...], "steps": [...], "totals": {...}}`` of flat dicts."""
@@ -203,23 +184,23 @@ class TrainResult:
     def stations_frame(self, headers: bool = False):
         """The station table as a pandas DataFrame (one row per station, SI units).
 
-        Columns: ``role``, the :data:`STATION_FIELDS` (``pressure_Pa``, ...) and ``phase``;
-        with ``headers`` the field columns carry their labels with units instead
-        (``"pressure [Pa]"``, from :data:`workbench.fields.FIELDS`).
+        Columns: ``role``, the :data:`STATION_FIELDS` under their field names (``pressure``,
+        ``mass_flow``...) and ``phase``; with ``headers`` the field columns carry their
+        labels with units instead (``"pressure [Pa]"``, from :data:`workbench.fields.FIELDS`).
         """
-        columns = ["station", "role", *(column(n) for n in STATION_FIELDS), "phase"]
+        columns = ["station", "role", *STATION_FIELDS, "phase"]
         return _frame([station_row(s) for s in self.stations], columns, headers)
 
     def machines_frame(self, headers: bool = False):
         """One row per machine (compressor, turbine, pump) as a pandas DataFrame, SI units.
 
-        ``power_W`` is the fluid power and ``shaft_power_W`` the power at the coupling;
+        ``power`` is the fluid power and ``shaft_power`` the power at the coupling;
         ``pressure_ratio`` is higher over lower pressure.  ``headers`` as for
         :meth:`stations_frame`.
         """
         rows = [{"step": s.name, **machine_row(s.result)} for s in self.steps
                 if s.kind in MACHINE_KINDS]
-        columns = ["step", "kind", *(column(n) for n in MACHINE_FIELDS)]
+        columns = ["step", "kind", *MACHINE_FIELDS]
         return _frame(rows, columns, headers)
 
     def devices_frame(self):
@@ -339,5 +320,5 @@ def run_train(inlet: State, mass_flow, steps) -> TrainResult:
     return Train(steps).run(inlet, mass_flow)
 
 
-__all__ = ["MACHINE_FIELDS", "STATION_FIELDS", "Train", "TrainResult", "column",
+__all__ = ["MACHINE_FIELDS", "STATION_FIELDS", "TOTAL_FIELDS", "Train", "TrainResult",
            "machine_row", "run_train", "station_row"]

@@ -58,8 +58,11 @@ class ExtractionTurbineResult:
     total_power = total_shaft_power
 
     def to_dict(self) -> dict:
-        """Train dict; the feed heater's numbers under ``"feed_heater"``."""
+        """Train dict (:meth:`TrainResult.to_dict`) with ``total_shaft_power`` added to the
+        totals; the feed heater's numbers under ``"feed_heater"``.  Keys are field names of
+        :data:`workbench.fields.FIELDS`."""
         d = self.train.to_dict()
+        d["totals"]["total_shaft_power"] = self.total_shaft_power
         d["feed_heater"] = None if self.feed_heater is None else self.feed_heater.to_dict()
         return d
 

@@ -14,6 +14,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from .. import fields
 from ..errors import InputError, SpecificationError
 from ..properties import State
 from ..units import choice, count, flag, optional_si, to_si
@@ -22,6 +23,8 @@ from .steps import CompressorStage, Cooler, PressureLoss, check_state
 
 #: How the stage ratios may be chosen, besides a list of ratios.
 STAGE_RATIO_OPTIONS = ("equal", "optimal")
+#: Fields added to the train totals by :meth:`IntercooledCompressorResult.to_dict`.
+INTERCOOLED_TOTAL_FIELDS = ("total_shaft_power", "stage_pressure_ratios", "stage_shaft_powers")
 
 
 def _per_item(value, n: int, name: str) -> list:
@@ -42,7 +45,8 @@ class IntercooledCompressorResult:
     train : TrainResult
         Every station, stage and cooler.
     stage_pressure_ratios : tuple of float
-        Discharge over suction pressure of each stage [-].
+        Discharge over suction pressure of each stage [-] (each stage's
+        ``MachineResult.pressure_ratio``).
     method : str
         ``"equal"``, ``"optimal"`` or ``"given"``: how the stage ratios were chosen.
     """
@@ -52,10 +56,13 @@ class IntercooledCompressorResult:
     method: str
 
     @property
-    def stage_powers(self) -> tuple:
+    def stage_shaft_powers(self) -> tuple:
         """Shaft power of each stage [W] (each stage's fluid power is
         ``train.machines[name].power``)."""
         return tuple(r.shaft_power for r in self.train.machines.values())
+
+    #: Same as :attr:`stage_shaft_powers` (the name of earlier versions).
+    stage_powers = stage_shaft_powers
 
     @property
     def total_shaft_power(self) -> float:
@@ -71,13 +78,17 @@ class IntercooledCompressorResult:
         return tuple(r.outlet.P for r in list(self.train.machines.values())[:-1])
 
     def to_dict(self) -> dict:
-        """Train dict with the stage ratios, shaft powers and method added to the totals."""
+        """Train dict (:meth:`TrainResult.to_dict`) with ``method``, ``total_shaft_power``,
+        ``stage_pressure_ratios`` and ``stage_shaft_powers`` (lists, one value per stage)
+        added to the totals; keys are field names of :data:`workbench.fields.FIELDS`.
+
+        Earlier versions used unit-suffixed keys and one key per stage
+        (``total_shaft_power_W``, ``stage_1_shaft_power_W``, ``stage_1_pressure_ratio``).
+        """
         d = self.train.to_dict()
-        d["totals"].update({"method": self.method,
-                            "total_shaft_power_W": self.total_shaft_power})
-        for i, (r, w) in enumerate(zip(self.stage_pressure_ratios, self.stage_powers), start=1):
-            d["totals"][f"stage_{i}_pressure_ratio"] = r
-            d["totals"][f"stage_{i}_shaft_power_W"] = w
+        d["totals"]["method"] = self.method
+        for name, value in fields.row(self, INTERCOOLED_TOTAL_FIELDS).items():
+            d["totals"][name] = list(value) if isinstance(value, tuple) else value
         return d
 
     def stations_frame(self, headers: bool = False):
@@ -303,7 +314,7 @@ def intercooled_compressor(inlet: State, mass_flow, *, P_out=None, pressure_rati
     else:
         method, ratios = "given", _given_ratios(stage_ratios, plan.n)
     result = plan.run(ratios)
-    stage_ratios_out = tuple(r.outlet.P / r.inlet.P for r in result.machines.values())
+    stage_ratios_out = tuple(r.pressure_ratio for r in result.machines.values())
     return IntercooledCompressorResult(train=result, stage_pressure_ratios=stage_ratios_out,
                                        method=method)
 

@@ -31,7 +31,7 @@ MACHINE_KINDS = ("compressor", "turbine", "pump")
 
 
 def check_state(value, name: str) -> State:
-    """``value`` if it is a :class:`~workbench.fluids.State`, else an InputError naming it."""
+    """``value`` if it is a :class:`~workbench.properties.State`, else an InputError naming it."""
     if not isinstance(value, State):
         raise InputError(f"{name} must be a State from Fluid.state(...), not "
                          f"{type(value).__name__}")

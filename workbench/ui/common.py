@@ -562,19 +562,17 @@ class ResultRows(widgets.VBox):
         Field names (keys of ``FIELDS``), in the order shown.
     percent : collection of str
         Field names shown in percent.
-    labels : dict, optional
-        Field name -> label where the panel words it differently (e.g. a unit-free note).
+
+    Labels are those of the table: a panel has no second list of result names.
     """
 
-    def __init__(self, names, percent=(), labels=None):
+    def __init__(self, names, percent=()):
         from ..fields import field
 
-        labels = labels or {}
         self.fields = {name: field(name) for name in names}
         self.kinds = {name: "percent" if name in percent else f.kind
                       for name, f in self.fields.items()}
-        self.rows = {hook(name): ResultField(hook(name), labels.get(name, f.label),
-                                             self.kinds[name])
+        self.rows = {hook(name): ResultField(hook(name), f.label, self.kinds[name])
                      for name, f in self.fields.items()}
         super().__init__(list(self.rows.values()))
 
@@ -676,14 +674,29 @@ class Panel(widgets.VBox):
         def guarded(*args, **kwargs):
             if self._quiet:
                 return None
-            try:
-                return callback(*args, **kwargs)
-            except Exception as exc:  # noqa: BLE001 - nothing escapes into the page
-                self.fail(exc, prefix)
-                return None
+            return self.attempt(callback, *args, prefix=prefix, **kwargs)[1]
         guarded.__name__ = getattr(callback, "__name__", "guarded")
         guarded.__doc__ = getattr(callback, "__doc__", None)
         return guarded
+
+    def attempt(self, func, *args, prefix: str = "", stale: bool = True, **kwargs):
+        """Call ``func(*args, **kwargs)``; return ``(True, its value)``, or show the error
+        (with ``prefix``) and return ``(False, None)``.
+
+        The one place where panels catch every exception: a bad input's
+        :class:`~workbench.errors.WorkbenchError` is shown as it is, anything else as a plain
+        sentence (:func:`describe_error`).  With ``stale`` the shown result is marked stale
+        (:meth:`fail`); without, only the message is shown (a chart that could not be
+        drawn leaves good numbers good).
+        """
+        try:
+            return True, func(*args, **kwargs)
+        except Exception as exc:  # noqa: BLE001 - nothing escapes into the page
+            if stale:
+                self.fail(exc, prefix)
+            else:
+                self.message.show_error(exc, prefix)
+            return False, None
 
     def fail(self, error, prefix: str = "") -> None:
         """Show ``error`` (exception or text) and mark the shown result stale."""

@@ -283,11 +283,10 @@ class MachinePanel(Panel):
         ``composition`` (a dict or text) are accepted too.  Returns True when the study
         ran; on a bad value the message area says why and nothing is computed.
         """
-        try:
-            new, typed = self._new_inputs(values)
-        except Exception as exc:  # noqa: BLE001 - shown to the user, never raised
-            self.fail(exc)
+        ok, got = self.attempt(self._new_inputs, values)
+        if not ok:
             return False
+        new, typed = got
         self._inputs = new
         self._refresh_widgets()
         with self.quiet():
@@ -366,12 +365,9 @@ class MachinePanel(Panel):
         The case is validated and computed first; if anything is wrong the message area says
         so and nothing in the panel changes.  Returns True when loaded.
         """
-        try:
-            loaded = open_case(source)
-            trial = study.machine_study(loaded["inputs"], self._fluids)
-            study.result_values(trial, RESULT_FIELDS)  # surface path errors before changing
-        except Exception as exc:  # noqa: BLE001 - shown to the user
-            self.message.show_error(exc, "case not loaded: ")
+        ok, loaded = self.attempt(self._trial_case, source, prefix="case not loaded: ",
+                                  stale=False)
+        if not ok:
             return False
         self._inputs = loaded["inputs"]
         self.title, self.description = loaded["title"], loaded["description"]
@@ -383,12 +379,18 @@ class MachinePanel(Panel):
                               cautions=self.result.cautions)
         return ok
 
+    def _trial_case(self, source) -> dict:
+        """The case read from ``source``, after a trial study (nothing in the panel changes)."""
+        loaded = open_case(source)
+        trial = study.machine_study(loaded["inputs"], self._fluids)
+        study.result_values(trial, RESULT_FIELDS)  # surface path errors before changing
+        return loaded
+
     def normalise(self) -> bool:
         """Scale the mixture fractions so they sum to 1 and recompute."""
-        try:
-            comp = study.normalise_composition(parse_composition(self.composition_box.value))
-        except Exception as exc:  # noqa: BLE001
-            self.fail(exc)
+        ok, comp = self.attempt(
+            lambda: study.normalise_composition(parse_composition(self.composition_box.value)))
+        if not ok:
             return False
         self._inputs["composition"] = comp
         self._inputs["fluid_kind"] = "mixture"
@@ -499,19 +501,21 @@ class MachinePanel(Panel):
                                              "download the case (JSON)", "application/json")
 
     # ------------------------------------------------------------------ internals
+    def _study(self, first=()):
+        """The study of the current inputs and its shown values (entries checked first)."""
+        problem = self._check_entries(first)
+        if problem:
+            raise InputError(problem)
+        result = study.machine_study(self._inputs, self._fluids)
+        return result, study.result_values(result, RESULT_FIELDS)  # every shown number now
+
     def _recalculate(self, first=()) -> bool:
-        try:
-            problem = self._check_entries(first)
-            if problem:
-                raise InputError(problem)
-            result = study.machine_study(self._inputs, self._fluids)
-            values = study.result_values(result, RESULT_FIELDS)  # every shown number now
-        except Exception as exc:  # noqa: BLE001 - shown, never raised
-            self.fail(exc)
+        ok, got = self.attempt(self._study, first)
+        if not ok:
             return False
-        self._values = values
+        result, self._values = got
         self.show_result(result, self._ok_text(result), cautions=result.cautions)
-        self._show_results()
+        self._show_results(states=False)  # show_result drew the states table already
         self._draw_charts()
         return True
 
@@ -563,8 +567,9 @@ class MachinePanel(Panel):
         for name in OPTIONAL:
             self.entries[name].label.style.text_color = None if name in used else "#9a9a9a"
 
-    def _show_results(self):
-        self._show_usage()
+    def _show_results(self, states: bool = True):
+        if states:
+            self._show_usage()
         if self.result is None:
             self.results.clear()
         else:
@@ -572,7 +577,8 @@ class MachinePanel(Panel):
             notes = {} if outlet.two_phase else {
                 "outlet_quality": f"– ({outlet.phase or 'one phase'})"}
             self.results.show(self._values, self.system, self.ambient, notes)
-        self._show_states()
+        if states:
+            self._show_states()
 
     def _show_states(self):
         self.states_html.value = "" if self.result is None else states_table(
@@ -582,16 +588,15 @@ class MachinePanel(Panel):
         """Draw the last good result into the process charts, if they are built."""
         if self.figure is None or self.result is None:
             return False
-        try:
-            if self._points_of is not self.result:
-                self._points = study.process_series(self.result)
-                self._points_of = self.result
-            charts.update_process_figure(self.figure, self._points, self.system)
-            charts.refresh_view(self.chart_box.children[0], self.figure)
-        except Exception as exc:  # noqa: BLE001 - the numbers stay good; the chart is not
-            self.message.show_error(exc, "the process chart could not be drawn: ")
-            return False
-        return True
+        return self.attempt(self._update_charts, stale=False,  # the numbers stay good
+                            prefix="the process chart could not be drawn: ")[0]
+
+    def _update_charts(self):
+        if self._points_of is not self.result:
+            self._points = study.process_series(self.result)
+            self._points_of = self.result
+        charts.update_process_figure(self.figure, self._points, self.system)
+        charts.refresh_view(self.chart_box.children[0], self.figure)
 
     def _show_composition_sum(self):
         try:

@@ -154,23 +154,26 @@ class SweepTab(widgets.VBox):
                 raise InputError(f"no result named {unknown[0]!r} to sweep")
             self.results.value = names
 
+    def _sweep(self, variable, start, stop, points, results):
+        panel = self.panel
+        self._apply(variable, start, stop, points, results)
+        panel._inputs["sweep_start"] = self.start.si
+        panel._inputs["sweep_stop"] = self.stop.si
+        chosen = [n.replace("-", "_") for n in self.results.value] or ["power"]
+        values = study.sweep_values(self.start.si, self.stop.si, self.points.value)
+        return study.sweep(panel._inputs, self.variable.value, values, chosen, panel._fluids)
+
     def run(self, variable=None, start=None, stop=None, points=None, results=None):
         """Run the sweep (see :meth:`MachinePanel.run_sweep`); None and a message when the
         settings are bad."""
         import pandas as pd
 
         panel = self.panel
-        try:
-            self._apply(variable, start, stop, points, results)
-            panel._inputs["sweep_start"] = self.start.si
-            panel._inputs["sweep_stop"] = self.stop.si
-            name = self.variable.value
-            chosen = [n.replace("-", "_") for n in self.results.value] or ["power"]
-            values = study.sweep_values(self.start.si, self.stop.si, self.points.value)
-            swept = study.sweep(panel._inputs, name, values, chosen, panel._fluids)
-        except Exception as exc:  # noqa: BLE001 - shown, never raised
-            panel.message.show_error(exc, "sweep not run: ")
+        ok, swept = panel.attempt(self._sweep, variable, start, stop, points, results,
+                                  prefix="sweep not run: ", stale=False)
+        if not ok:
             return None
+        name, chosen = swept.variable, list(swept.columns)
         system, ambient = panel.system, panel.ambient
         _key, label, kind = ENTRIES[name]
         x_col = f"{label} [{unit_label(system, kind)}]"
@@ -193,10 +196,13 @@ class SweepTab(widgets.VBox):
         if swept.failures:
             note += f", {len(swept.failures)} failed (gaps): {swept.failures[0][1]}"
         self.note.value = html.escape(note, quote=False)
-        try:  # the numbers are shown; now the chart (built once, then changed in place)
-            self.ensure_figure()
-            columns = {c: table[c].tolist() for c in table.columns[1:]}
-            charts.update_sweep_figure(self.figure, table[x_col].tolist(), columns, x_col)
-            charts.refresh_view(self.view.children[0], self.figure)
-        except Exception as exc:  # noqa: BLE001 - the table is good; the chart is not
-            self.panel.message.show_error(exc, "the sweep chart could not be drawn: ")
+        # the numbers are shown; now the chart (built once, then changed in place); the
+        # table stays good when the chart cannot be drawn
+        self.panel.attempt(self._draw, table, x_col, stale=False,
+                           prefix="the sweep chart could not be drawn: ")
+
+    def _draw(self, table, x_col):
+        self.ensure_figure()
+        columns = {c: table[c].tolist() for c in table.columns[1:]}
+        charts.update_sweep_figure(self.figure, table[x_col].tolist(), columns, x_col)
+        charts.refresh_view(self.view.children[0], self.figure)

@@ -17,6 +17,7 @@ import ipywidgets as widgets
 
 from ..fieldtest.readers import READING_KINDS
 from ..fieldtest.setup_file import UNIT_CHOICES, tolerance_unit
+from .common import input_class
 
 #: The column choice of a reading that is not mapped.
 NONE = "(not measured)"
@@ -35,7 +36,7 @@ def dropdown(name, label, options, value, width="520px", label_width="170px"):
     w = widgets.Dropdown(options=list(options), value=value, description=label,
                          style={"description_width": label_width},
                          layout=widgets.Layout(width=width))
-    w.add_class(f"wb-input-{name}")
+    input_class(w, name)
     return w
 
 
@@ -62,10 +63,10 @@ class ColumnRow(widgets.HBox):
         choices = UNIT_CHOICES[self.kind]
         self.unit = widgets.Dropdown(options=choices, value=choices[0],
                                      layout=widgets.Layout(width="110px"))
-        self.unit.add_class(f"wb-input-unit-{hook}")
+        input_class(self.unit, f"unit-{hook}")
         self.tolerance = widgets.FloatText(value=0.0, continuous_update=False,
                                            layout=widgets.Layout(width="90px"))
-        self.tolerance.add_class(f"wb-input-tolerance-{hook}")
+        input_class(self.tolerance, f"tolerance-{hook}")
         self.tolerance_unit = widgets.Label(tolerance_unit(choices[0], self.kind),
                                             layout=widgets.Layout(width="70px"))
         self.tolerance_box = widgets.HBox([self.tolerance, self.tolerance_unit],

@@ -42,7 +42,6 @@ from contextlib import contextmanager
 
 import ipywidgets as widgets
 
-from ..errors import WorkbenchError
 from ..fieldtest.design import DesignPoint
 from ..fieldtest.readers import READING_KINDS
 from ..fieldtest.session import (
@@ -64,7 +63,7 @@ from ..fieldtest.setup_file import (
 )
 from . import readings_view as view
 from .charts import figure_view, refresh_view
-from .common import NumberEntry, Panel, download_link
+from .common import NumberEntry, Panel, download_link, input_class, result_class
 from .readings_chart import make_readings_figure, update_readings_figure
 from .readings_entries import (
     LABELS,
@@ -148,14 +147,14 @@ class ReadingsPanel(Panel):
     def _build(self, machine, fluid, backend, ambient_pressure, mechanical_efficiency, design):
         self.upload = widgets.FileUpload(accept=".csv,.txt,.xlsx,.xlsm", multiple=False,
                                          description="Readings file")
-        self.upload.add_class("wb-input-file")
+        input_class(self.upload, "file")
         self.upload.observe(self.guard(self._uploaded, "the upload could not be read: "),
                             names="value")
         self.machine = dropdown("machine", "", MACHINES, machine, "150px", "0px")
         self.fluid = widgets.Text(value=fluid, description="Fluid",
                                   layout=widgets.Layout(width="760px"),
                                   style={"description_width": "170px"})
-        self.fluid.add_class("wb-input-fluid")
+        input_class(self.fluid, "fluid")
         self.backend = dropdown("backend", "", PROPERTY_MODELS, backend, "150px", "0px")
         self.ambient = NumberEntry("ambient-pressure", "Ambient pressure", "absolute_pressure",
                                    ambient_pressure, system=_SYSTEM)
@@ -176,29 +175,29 @@ class ReadingsPanel(Panel):
         self.steady_window = widgets.IntText(
             value=STEADY_WINDOW, description="Steady window (rows)", continuous_update=False,
             style={"description_width": "170px"}, layout=widgets.Layout(width="260px"))
-        self.steady_window.add_class("wb-input-steady-window")
+        input_class(self.steady_window, "steady-window")
         self.steady_window.observe(self.guard(lambda _change: self._steady_changed()),
                                    names="value")
         self._build_uncertainty_and_design(design)
         self.run = widgets.Button(description="Evaluate all rows", button_style="primary",
                                   layout=widgets.Layout(width="200px", margin="8px 0 4px 0"))
-        self.run.add_class("wb-input-evaluate")
+        input_class(self.run, "evaluate")
         self.run.on_click(self.guard(lambda _: self.evaluate()))
         self.progress = widgets.IntProgress(value=0, min=0, max=100, description="Evaluating",
                                             layout=widgets.Layout(width="400px",
                                                                   display="none"))
-        self.progress.add_class("wb-result-progress")
+        result_class(self.progress, "progress")
         self.summary = widgets.HTML("No readings yet.", layout=widgets.Layout(width="100%"))
-        self.summary.add_class("wb-result-summary")
+        result_class(self.summary, "summary")
         self.table = widgets.HTML("", layout=widgets.Layout(max_height="460px",
                                                             overflow="auto", width="100%"))
-        self.table.add_class("wb-result-table")
+        result_class(self.table, "table")
         self.export = widgets.HTML("")
-        self.export.add_class("wb-result-export")
+        result_class(self.export, "export")
         #: The charts: one FigureWidget, two subplots, traces updated in place.
         self.figure = make_readings_figure()
         self.figure_view = figure_view(self.figure)
-        self.figure_view.add_class("wb-result-figure")
+        result_class(self.figure_view, "figure")
         self.title = widgets.HTML(view.title_html(""))
         header = widgets.HBox([self.title, self.upload], layout=widgets.Layout(
             justify_content="space-between", align_items="center", width="100%"))
@@ -259,15 +258,15 @@ class ReadingsPanel(Panel):
     def _setup_tab(self):
         self.setup_upload = widgets.FileUpload(accept=".json", multiple=False,
                                                description="Load setup")
-        self.setup_upload.add_class("wb-input-setup-upload")
+        input_class(self.setup_upload, "setup-upload")
         self.setup_upload.observe(self._setup_uploaded, names="value")  # guarded inside
         self.setup_save = widgets.Button(description="Prepare setup download",
                                          layout=widgets.Layout(width="200px"))
-        self.setup_save.add_class("wb-input-setup-save")
+        input_class(self.setup_save, "setup-save")
         self.setup_save.on_click(self.guard(lambda _b: self._refresh_setup_link(),
                                             "setup not saved: "))
         self.setup_link = widgets.HTML("")
-        self.setup_link.add_class("wb-result-setup-link")
+        result_class(self.setup_link, "setup-link")
         return widgets.VBox([
             note("Save the whole setup of this page (column map and units, steady-state "
                  "window and tolerances, machine, fluid, ambient pressure, instrument "
@@ -336,8 +335,13 @@ class ReadingsPanel(Panel):
         value = change["new"]
         if not value:
             return
-        item = value[0] if isinstance(value, (tuple, list)) else next(iter(value.values()))
-        self.load(item.get("name", "readings.csv"), item["content"])
+        try:
+            item = value[0] if isinstance(value, (tuple, list)) else next(iter(value.values()))
+            self.load(item.get("name", "readings.csv"), item["content"])
+        finally:
+            with self.quiet():
+                self.upload.value = ()  # the bytes are not kept twice; the same file can
+                # be chosen again
 
     def load(self, file_name: str, content: bytes) -> bool:
         """Load a file's bytes; the column choices become the file's headers.
@@ -346,10 +350,8 @@ class ReadingsPanel(Panel):
         :data:`~workbench.fieldtest.session.UPLOAD_LIMIT_BYTES`, empty, binary, not a table)
         leaves the panel as it was, its last results marked stale, and the message says why.
         """
-        try:
-            raw = read_table(file_name, content)
-        except WorkbenchError as exc:
-            self.fail(exc)
+        good, raw = self.attempt(read_table, file_name, content)
+        if not good:
             return False
         self.raw, self.file_name = raw, file_name
         self.title.value = view.title_html(file_name)
@@ -449,15 +451,15 @@ class ReadingsPanel(Panel):
         if self.raw is None:
             self.fail("load a readings file first")
             return False
-        try:
-            setup = self.current_setup()
-            with self._progress_bar(len(self.raw)) as progress:
-                session = evaluate_session(self.raw, setup, progress=progress)
-        except Exception as exc:  # noqa: BLE001 - shown in the message area, never raised
-            self.fail(exc)
-            return False
-        self._show(session)
-        return True
+        good, session = self.attempt(self._evaluate_session)
+        if good:
+            self._show(session)
+        return good
+
+    def _evaluate_session(self):
+        setup = self.current_setup()
+        with self._progress_bar(len(self.raw)) as progress:
+            return evaluate_session(self.raw, setup, progress=progress)
 
     @contextmanager
     def _progress_bar(self, rows: int):
@@ -504,15 +506,14 @@ class ReadingsPanel(Panel):
         bool
             True when the setup was loaded (the evaluation's outcome is in the message area).
         """
-        try:
-            setup = setup_from_file(source, self.raw, self.file_name)
-        except Exception as exc:  # noqa: BLE001 - the panel and its results stay as they were
-            self.message.show_error(exc, "setup not loaded: ")
+        # a refused setup leaves the panel and its results as they were (not stale)
+        good, setup = self.attempt(setup_from_file, source, self.raw, self.file_name,
+                                   prefix="setup not loaded: ", stale=False)
+        if not good:
             return False
-        try:
-            self._apply_setup(setup)
-        except Exception as exc:  # noqa: BLE001 - shown in the message area, never raised
-            self.fail(exc, "the setup was only partly applied; check the entries: ")
+        good, _ = self.attempt(self._apply_setup, setup,
+                               prefix="the setup was only partly applied; check the entries: ")
+        if not good:
             return False
         made_with = setup.readings_file
         note_text = (f" (made with {made_with})" if made_with and made_with != self.file_name
@@ -557,15 +558,16 @@ class ReadingsPanel(Panel):
         value = change["new"]
         if not value:
             return
-        try:
-            item = value[0] if isinstance(value, (tuple, list)) else next(iter(value.values()))
-            content = item["content"] if isinstance(item, dict) else item.content
-            name = item.get("name", "") if isinstance(item, dict) else getattr(item, "name", "")
-            self.load_setup(bytes(content), name)
-        except Exception as exc:  # noqa: BLE001 - shown in the message area, never raised
-            self.message.show_error(exc, "setup not loaded: the upload could not be read: ")
+        self.attempt(self._load_uploaded_setup, value, stale=False,
+                     prefix="setup not loaded: the upload could not be read: ")
         with self.quiet():
             self.setup_upload.value = ()  # so the same file can be loaded again
+
+    def _load_uploaded_setup(self, value):
+        item = value[0] if isinstance(value, (tuple, list)) else next(iter(value.values()))
+        content = item["content"] if isinstance(item, dict) else item.content
+        name = item.get("name", "") if isinstance(item, dict) else getattr(item, "name", "")
+        self.load_setup(bytes(content), name)
 
     def _refresh_setup_link(self):
         """Put the current setup into the download link (a data: URL)."""
@@ -588,20 +590,18 @@ class ReadingsPanel(Panel):
         self.show_result(session, "" if s["flagged"] == 0 else
                          f"{s['flagged']} row(s) flagged; their messages are in the table "
                          "and the CSV.")
-        try:
-            update_readings_figure(self.figure, session.chart_series())
-            refresh_view(self.figure_view, self.figure)
-        except Exception as exc:  # noqa: BLE001 - the table stays good; the chart is not
-            self.message.show_error(exc, "the charts could not be drawn: ")
+        self.attempt(self._draw, session, prefix="the charts could not be drawn: ",
+                     stale=False)  # the table stays good when the chart is not
         self.table.value = view.table_html(session)
         self.export.value = download_link(
             session.export_csv(), "results.csv", f"Download all {s['rows']} rows as CSV") + (
             " (SI units; <code>steady</code> and each reading's largest deviation from its "
             "window mean)")
-        try:
-            self._refresh_setup_link()
-        except WorkbenchError as exc:
-            self.message.show_error(exc, "setup not saved: ")
+        self.attempt(self._refresh_setup_link, prefix="setup not saved: ", stale=False)
+
+    def _draw(self, session):
+        update_readings_figure(self.figure, session.chart_series())
+        refresh_view(self.figure_view, self.figure)
 
 
 __all__ = ["DEMO_FILE", "DEMO_GAS", "DEMO_MAP", "PROGRESS_ROWS", "ReadingsPanel"]

@@ -193,12 +193,13 @@ class TrainPanel(Panel):
 
     def recalculate(self) -> bool:
         """Recalculate; on failure show the message and keep the last result, marked stale."""
-        try:
-            result = self.compute()
-            self._values = ts.train_values(result)
-        except Exception as exc:  # noqa: BLE001 - shown to the user, never raised
-            self.fail(exc)
+        ok, result = self.attempt(self.compute)
+        if not ok:
             return False
+        ok, values = self.attempt(ts.train_values, result)
+        if not ok:
+            return False
+        self._values = values
         self.show_result(result)
         self._show(result)
         return True
