@@ -70,8 +70,8 @@ def _depth_ok(text: str) -> bool:
     return True
 
 
-def _refuse_constant(name):
-    raise CaseFileError(f"the case file holds {name}, which is not a number JSON allows")
+def _refuse_constant(name, what="case"):
+    raise CaseFileError(f"the {what} file holds {name}, which is not a number JSON allows")
 
 
 def parse_case_json(text: str, what: str = "case"):
@@ -90,7 +90,7 @@ def parse_case_json(text: str, what: str = "case"):
         raise CaseFileError(f"the {what} file nests objects or lists more than {MAX_DEPTH} "
                             "deep")
     try:
-        return json.loads(text, parse_constant=_refuse_constant)
+        return json.loads(text, parse_constant=lambda name: _refuse_constant(name, what))
     except json.JSONDecodeError as exc:
         raise CaseFileError(f"the {what} file is not valid JSON (line {exc.lineno}, column "
                             f"{exc.colno}: {exc.msg})") from None
@@ -101,10 +101,11 @@ def parse_case_json(text: str, what: str = "case"):
                             f"({exc.__class__.__name__})") from None
 
 
-def read_case_text(source) -> str:
+def read_case_text(source, what: str = "case") -> str:
     """The text of a case given as JSON text (str), bytes, or a :class:`pathlib.Path`.
 
-    A ``str`` is always the JSON text itself, never opened as a file name.
+    A ``str`` is always the JSON text itself, never opened as a file name.  ``what`` names
+    the kind of file in messages (``"case"``, ``"setup"``).
     """
     if isinstance(source, str):
         return source
@@ -114,21 +115,21 @@ def read_case_text(source) -> str:
         path = Path(source)
         try:
             if path.stat().st_size > MAX_CASE_BYTES:
-                raise CaseFileError(f"the case file {path.name!r} is larger than "
+                raise CaseFileError(f"the {what} file {path.name!r} is larger than "
                                     f"{MAX_CASE_BYTES} bytes")
             data = path.read_bytes()
         except OSError as exc:
-            raise CaseFileError(f"could not read the case file {path.name!r}: "
+            raise CaseFileError(f"could not read the {what} file {path.name!r}: "
                                 f"{exc.__class__.__name__}") from None
     else:
-        raise CaseFileError("a case must be a dict, JSON text, bytes or a pathlib.Path, not "
-                            f"{type(source).__name__}")
+        raise CaseFileError(f"a {what} must be a dict, JSON text, bytes or a pathlib.Path, "
+                            f"not {type(source).__name__}")
     if len(data) > MAX_CASE_BYTES:
-        raise CaseFileError(f"the case file is larger than {MAX_CASE_BYTES} bytes")
+        raise CaseFileError(f"the {what} file is larger than {MAX_CASE_BYTES} bytes")
     try:
         return data.decode("utf-8")
     except UnicodeDecodeError:
-        raise CaseFileError("the case file is not UTF-8 text") from None
+        raise CaseFileError(f"the {what} file is not UTF-8 text") from None
 
 
 def _note(value, key):

@@ -352,8 +352,8 @@ def read_setup(source, file_columns=None, file_name: str = "") -> dict:
     size, nesting depth, NaN and Infinity checked).  Returns the result of
     :func:`validate_setup` (``file_columns`` and ``file_name`` are passed on).
     """
-    data = source if isinstance(source, dict) else parse_case_json(read_case_text(source),
-                                                                    "setup")
+    data = source if isinstance(source, dict) else parse_case_json(
+        read_case_text(source, "setup"), "setup")
     return validate_setup(data, file_columns, file_name)
 
 
