@@ -31,6 +31,7 @@ checks the project's rule that nothing raw, non-finite or silent reaches a user 
 from __future__ import annotations
 
 import csv
+import functools
 import importlib
 import io
 import json
@@ -1048,10 +1049,11 @@ def _readings_once(data):
     return None
 
 
+@functools.cache
 def _find(attribute):
     """The first workbench module that defines ``attribute`` (the loaders may move)."""
-    for name in ("workbench.ui.cases", "workbench.ui.test_setup", "workbench.fieldtest.setup",
-                 "workbench.ui.setup_file", "workbench.cases", "workbench.fieldtest.session"):
+    for name in ("workbench.machine_case", "workbench.study", "workbench.fieldtest.setup_file",
+                 "workbench.ui.cases", "workbench.fieldtest.session"):
         try:
             module = importlib.import_module(name)
         except ImportError:
