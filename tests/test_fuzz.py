@@ -945,7 +945,9 @@ def _readings_once(data):
     column_map = {n: f"col {n}" for n in names}
     units = dict(_UNITS)
     n_rows = data.draw(st.integers(1, 8))
-    rows = [[data.draw(_CELLS) for _ in names] for _ in range(n_rows)]
+    # one draw for the whole table (a draw per cell costs more than the read itself)
+    rows = data.draw(st.lists(st.lists(_CELLS, min_size=len(names), max_size=len(names)),
+                              min_size=n_rows, max_size=n_rows))
     source = io.StringIO(_csv(rows, [column_map[n] for n in names]))
     source.name = "readings.csv"
     tag, labels, kwargs = "good", ("readings",), {}
@@ -1119,12 +1121,16 @@ def _evaluate_rows_once(data):
     n = data.draw(st.integers(1, 8))
     cells = st.one_of(st.floats(0.0, 2.0), st.sampled_from([math.nan, -1.0, 0.0, math.inf,
                                                              1e300, "x", None, "1.5"]))
+
+    def column(numbers):  # one draw per column
+        return data.draw(st.lists(numbers | cells, min_size=n, max_size=n))
+
     frame = pd.DataFrame({
-        "inlet_pressure": [data.draw(st.floats(0.5e5, 2e5) | cells) for _ in range(n)],
-        "inlet_temperature": [data.draw(st.floats(280.0, 330.0) | cells) for _ in range(n)],
-        "outlet_pressure": [data.draw(st.floats(2e5, 5e5) | cells) for _ in range(n)],
-        "outlet_temperature": [data.draw(st.floats(380.0, 500.0) | cells) for _ in range(n)],
-        "mass_flow": [data.draw(st.floats(0.5, 5.0) | cells) for _ in range(n)]},
+        "inlet_pressure": column(st.floats(0.5e5, 2e5)),
+        "inlet_temperature": column(st.floats(280.0, 330.0)),
+        "outlet_pressure": column(st.floats(2e5, 5e5)),
+        "outlet_temperature": column(st.floats(380.0, 500.0)),
+        "mass_flow": column(st.floats(0.5, 5.0))},
         index=pd.Index(data.draw(st.permutations(list(range(100, 100 + n))))))
     try:
         out = wb.evaluate(frame, "compressor", AIR, mode="outlet",
