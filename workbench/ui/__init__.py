@@ -22,6 +22,7 @@ _EXPORTS = {
                       ("test_data_panel", "FieldDataPanel")),
     "FieldDataPanel": (("readings_panel", "FieldDataPanel"), ("readings_panel", "ReadingsPanel"),
                        ("test_data_panel", "FieldDataPanel")),
+    "CurvesPanel": (("curves_panel", "CurvesPanel"),),
     "Panel": (("common", "Panel"),),
     "list_demo_cases": (("cases", "list_demo_cases"),),
 }
