@@ -61,9 +61,9 @@ from .curves_table import (
     TABLE_LIMIT_BYTES,
     curve_columns,
     format_table,
+    measured_columns,
     parse_table,
     readings_points,
-    test_columns,
 )
 from .curves_verdicts import CSS, verdict_text, verdicts_html
 
@@ -279,7 +279,7 @@ class CurvesPanel(Panel):
     def _pump_from_widgets(self, data):
         if "system" in data:
             data["system"] = dict(data["system"], static_head=self.static_head.si)
-        table = parse_table(self.test_text.value, test_columns("pump"), self.system,
+        table = parse_table(self.test_text.value, measured_columns("pump"), self.system,
                             "test points")
         if table["_rows"] == 0:
             data.pop("acceptance", None)
@@ -297,13 +297,13 @@ class CurvesPanel(Panel):
         sim = data.get("similarity")
         if sim is None:
             return
-        table = parse_table(self.test_text.value, test_columns("compressor"), self.system,
+        table = parse_table(self.test_text.value, measured_columns("compressor"), self.system,
                             "test point")
         if table["_rows"] != 1:
             raise InputError(f"test point: an ASME PTC 10 comparison takes one test point "
                              f"(one line of six readings), not {table['_rows']}")
         test = dict(sim["test"])
-        for col in test_columns("compressor"):
+        for col in measured_columns("compressor"):
             test[col.key] = float(table[col.key][0])
         data["similarity"] = dict(sim, test=test, test_type=self.rule.value)
 
@@ -330,7 +330,7 @@ class CurvesPanel(Panel):
     def _show_pump_inputs(self, data, system):
         acc = data.get("acceptance") or {}
         self.rule.value = acc.get("grade", "2B")
-        self.test_text.value = format_table(test_columns("pump"), acc, system)
+        self.test_text.value = format_table(measured_columns("pump"), acc, system)
         self.test_speed.set_si(acc.get("test_speed", data["curve"]["speed"]) / _RPM)
         self.g_flow.set_si(acc.get("guarantee_flow", 0.0))
         self.g_head.set_si(acc.get("guarantee_head", 0.0))
@@ -349,7 +349,7 @@ class CurvesPanel(Panel):
         sim = data.get("similarity") or {}
         self.rule.value = str(sim.get("test_type", "2"))
         test = sim.get("test") or {}
-        cols = test_columns("compressor")
+        cols = measured_columns("compressor")
         self.test_text.value = format_table(
             cols, {c.key: [test[c.key]] for c in cols if c.key in test}, system)
         self.test_heading.value = ("<b>Test point on the test gas (ASME PTC 10); the "
@@ -451,7 +451,17 @@ class CurvesPanel(Panel):
             self.curve_file.value = ()
         if content is None:
             return
-        self.curve_text.value = self._table_text(name, content)
+        text = self._table_text(name, content)
+        table = parse_table(text, curve_columns(self.case["kind"]), self.system, name)
+        if table["_rows"] and table["flow"] is not None:
+            with self.quiet():  # the old limits may lie outside the new curve
+                self.min_flow.set_si(float(table["flow"][0]))
+                self.max_flow.set_si(float(table["flow"][-1]))
+                self.curve_text.value = text
+        self.recalculate()
+        self.message.show(f"curve read from {name}; its flow limits are set to its first and "
+                          "last points: enter the minimum-flow or surge limit",
+                          cautions=self._cautions(self.result))
 
     def _readings_uploaded(self, change):
         name, content = _upload_content(change)
@@ -461,7 +471,7 @@ class CurvesPanel(Panel):
             return
         kind = self.case["kind"]
         points = readings_points(read_table(name or "readings.csv", content), kind)
-        cols = test_columns(kind)
+        cols = measured_columns(kind)
         with self.quiet():
             if kind == "pump":
                 self.test_speed.set_si(points.pop("test_speed") / _RPM)

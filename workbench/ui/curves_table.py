@@ -83,7 +83,7 @@ def curve_columns(machine: str) -> tuple:
     return tuple(cols)
 
 
-def test_columns(machine: str) -> tuple:
+def measured_columns(machine: str) -> tuple:
     """Columns of the test points: pump flow, head and power; compressor readings."""
     if machine == "compressor":
         return (Column("inlet_pressure", "inlet pressure", "absolute_pressure"),
@@ -135,13 +135,15 @@ def parse_table(text: str, columns, system, what: str = "table") -> dict:
     """
     if not isinstance(text, str):
         raise InputError(f"{what} must be text")
-    rows = []
+    rows, first = [], True
     for number, line in enumerate(text.splitlines(), start=1):
         stripped = line.strip()
         if not stripped or stripped.startswith("#"):
             continue
-        if not rows and re.search(r"[A-DF-Za-df-z]", stripped):
+        if first and re.search(r"[A-DF-Za-df-z]", stripped):
+            first = False
             continue  # a header line (letters other than an exponent's e)
+        first = False
         cells = _cells(stripped)
         if len(cells) > len(columns):
             raise InputError(f"{what}, line {number}: {len(cells)} cells, at most "
@@ -237,4 +239,4 @@ def readings_points(raw, machine: str) -> dict:
 
 
 __all__ = ["Column", "MAX_POINTS", "TABLE_LIMIT_BYTES", "curve_columns", "format_table",
-           "header_line", "parse_table", "readings_points", "test_columns"]
+           "header_line", "parse_table", "readings_points", "measured_columns"]
