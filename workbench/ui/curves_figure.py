@@ -20,7 +20,7 @@ PALETTE = ("#1f4e79", "#7a7a7a", "#a05a2c", "#3c7d3c", "#6a3d9a", "#8c6d1f", "#2
 _AXES = (("x", "y"), ("x2", "y2"))
 
 
-def make_curves_figure(width: int = 1160, height: int = 440):
+def make_curves_figure(width: int = 1160, height: int = 560):
     """An empty FigureWidget: two charts side by side, :data:`POOL` hidden traces each."""
     fig = new_figure()
     for panel, (x_axis, y_axis) in enumerate(_AXES):
@@ -28,16 +28,16 @@ def make_curves_figure(width: int = 1160, height: int = 440):
             fig.add_scatter(x=[], y=[], name="", visible=False, xaxis=x_axis, yaxis=y_axis,
                             legend="legend" if panel == 0 else "legend2", mode="lines")
     fig.update_layout(
-        width=width, height=height, margin=dict(l=60, r=20, t=40, b=150),
+        width=width, height=height, margin=dict(l=60, r=20, t=40, b=200),
         template="simple_white",
         xaxis=dict(domain=[0.0, 0.45], title=dict(text=""), rangemode="tozero"),
         yaxis=dict(anchor="x", title=dict(text=""), rangemode="tozero"),
         xaxis2=dict(domain=[0.55, 1.0], title=dict(text=""), rangemode="tozero"),
         yaxis2=dict(anchor="x2", title=dict(text=""), rangemode="tozero"),
-        legend=dict(orientation="h", x=0.0, y=-0.2, xanchor="left", yanchor="top",
-                    font=dict(size=10)),
-        legend2=dict(orientation="h", x=0.55, y=-0.2, xanchor="left", yanchor="top",
-                     font=dict(size=10)),
+        legend=dict(orientation="v", x=0.0, y=-0.16, xanchor="left", yanchor="top",
+                    font=dict(size=11)),
+        legend2=dict(orientation="v", x=0.55, y=-0.16, xanchor="left", yanchor="top",
+                     font=dict(size=11)),
         annotations=[dict(text="", x=x, y=1.0, xref="paper", yref="paper", xanchor="center",
                           yanchor="bottom", showarrow=False, font=dict(size=13))
                      for x in (0.225, 0.775)])
@@ -57,7 +57,9 @@ def _series_traces(chart):
         t = dict(x=list(s.x), y=list(s.y), name=s.name, showlegend=True, visible=True,
                  error_y=dict(visible=False, array=[]))
         if s.style == "markers":
-            t.update(mode="markers", marker=dict(color=color, size=8, symbol="circle"),
+            big = color == "#000000"  # the operating or specified point
+            t.update(mode="markers", marker=dict(color=color, size=12 if big else 8,
+                                                 symbol="diamond" if big else "circle"),
                      line=dict(color=color, width=1, dash="solid"))
             if s.y_error is not None:
                 t["error_y"] = dict(visible=True, type="data", array=list(s.y_error),
@@ -78,9 +80,10 @@ def _series_traces(chart):
                  + [v for c in chart.crosses for v in (c.y_low, c.y_high)])
     top = max(ys) * 1.05 if ys else 1.0
     bottom = 0.0 if chart.zero or not ys else min(ys) - 0.05 * (max(ys) - min(ys))
-    for x, label in chart.vlines:
+    for i, (x, label) in enumerate(chart.vlines):
         traces.append(dict(x=[x, x], y=[bottom, top], name=label, mode="lines+text",
-                           text=["", label], textposition="top right", showlegend=False,
+                           text=["", label], textposition="top left" if i else "top right",
+                           showlegend=False,
                            visible=True, line=dict(color="#9a3b00", width=1, dash="dot"),
                            marker=dict(color="#9a3b00", size=1, symbol="circle"),
                            error_y=dict(visible=False, array=[])))

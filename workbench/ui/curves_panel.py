@@ -167,7 +167,7 @@ class CurvesPanel(Panel):
         self.case_file.observe(guard(self._case_uploaded, "case not loaded: "), "value")
 
         def entry(name, label, kind, unit=None):
-            e = NumberEntry(name, label, kind, 0.0, system=units,
+            e = NumberEntry(name, label, kind, 0.0, system=units, significant=6 if unit else None,
                             on_change=guard(lambda _e: self.recalculate()))
             if unit:
                 e.unit.value = unit
@@ -179,12 +179,15 @@ class CurvesPanel(Panel):
         self.test_speed = entry("test-speed", "Test speed", "dimensionless", "rpm")
         self.g_flow = entry("guarantee-flow", "Guarantee flow", "volume_flow")
         self.g_head = entry("guarantee-head", "Guarantee head", "elevation")
-        self.g_eff = entry("guarantee-efficiency", "Guarantee efficiency (0: none)", "percent")
+        self.g_eff = entry("guarantee-efficiency", "Guarantee efficiency", "percent")
         self.static_head = entry("static-head", "System static head", "elevation")
         for w in (self.rule, self.curve_text, self.test_text):
             w.observe(guard(lambda _c: self.recalculate()), names="value")
-        self.rows = self.add_result_widget(ResultRows(POINT_FIELDS + ACCEPTANCE_FIELDS,
-                                                      percent=_PERCENT))
+        self.rows = self.add_result_widget(ResultRows(
+            POINT_FIELDS + ACCEPTANCE_FIELDS, percent=_PERCENT,
+            labels={"volume_flow": "operating flow", "total_head": "operating head",
+                    "efficiency": "efficiency (curve)", "power": "power input (curve)",
+                    "surge_margin": "minimum-flow margin"}))
         for name in ("total_head", "npsh_available", "npsh_required", "npsh_margin"):
             self.rows.kinds[name] = "elevation"  # heads in m (or ft), not mm
         self.verdict = result_class(widgets.HTML(""), "verdict")
@@ -319,6 +322,10 @@ class CurvesPanel(Panel):
             for e in (self.curve_speed, self.min_flow, self.max_flow, self.test_speed,
                       self.g_flow, self.g_head, self.g_eff, self.static_head):
                 e.set_system(system, 101325.0)
+            for e in (self.curve_speed, self.test_speed):
+                e.unit.value = "rpm"
+            self.min_flow.label.value = ("Minimum-flow limit" if kind == "pump"
+                                         else "Surge limit")
             self.curve_speed.set_si(curve["speed"] / _RPM)
             self.min_flow.set_si(curve.get("min_flow") or curve["flow"][0])
             self.max_flow.set_si(curve.get("max_flow") or curve["flow"][-1])
@@ -361,7 +368,7 @@ class CurvesPanel(Panel):
     # ------------------------------------------------------------------ results
     def _accept(self, result, text):
         self.show_result(result, text, cautions=self._cautions(result))
-        self.title_html.value = (f"<h3 style='margin:4px 0'>Machine curves and acceptance: "
+        self.title_html.value = (f"<h3 style='margin:4px 0'>"
                                  f"{html.escape(result.title or 'untitled case')}</h3>")
         self._show_results()
 
@@ -420,20 +427,20 @@ class CurvesPanel(Panel):
             points = Series("test points at test speed",
                             tuple(to_display(q, "volume_flow") for q in acc["test_flow"]),
                             tuple(float(h) for h in acc["test_head"]), style="markers",
-                            color="#a05a2c")
+                            color="#6a3d9a")
         elif result.similarity is not None:
             speed = result.similarity.test.speed
             t = result.similarity.test
             points = Series("test point as measured",
                             (to_display(t.volume_flow, "volume_flow"),),
                             (to_display(t.polytropic_head, kind),), style="markers",
-                            color="#a05a2c")
+                            color="#6a3d9a")
         else:
             return ()
         if abs(speed / curve.speed - 1.0) < 1e-9 or not 0.1 <= speed / curve.speed <= 10:
             return (points,)
         scaled = curve_series(curve.at_speed(speed), "datasheet curve at test speed", kind,
-                              color="#a05a2c")
+                              color="#6a3d9a")
         scaled = dataclasses.replace(scaled, style="dashed")
         return (scaled, points)
 

@@ -11,6 +11,7 @@ from __future__ import annotations
 import html
 
 from ..curves.charts import show
+from ..curves.charts import unit as unit_of
 from ..fields import FIELDS
 
 CSS = """
@@ -76,10 +77,50 @@ def _similarity_rows(sim):
     for c in sim.checks:
         label = FIELDS[c.parameter].label if c.parameter in FIELDS else c.parameter
         what = "test / specified" if c.measure == "ratio" else "test - specified"
-        rows.append(_row(f"{label} ({what})", f"{c.value:.4g}",
+        value = f"{c.value:.4f}" if c.measure == "departure" else f"{c.value:.4g}"
+        rows.append(_row(f"{label} ({what})", value,
                          f"{c.low:.4g} .. {c.high:.4g}<br><span class='wb-note'>"
                          f"{html.escape(c.source)}</span>", bool(c.within)))
     return rows
+
+
+#: Rows of the compressor table: field name, display kind, format.
+_SIM_ROWS = (("volume_flow", "volume_flow", ".5g"), ("speed", "rotational_speed", ".5g"),
+             ("polytropic_head", "specific_energy", ".5g"),
+             ("polytropic_efficiency", "percent", ".2f"), ("power", "power", ".5g"),
+             ("outlet_pressure", "pressure", ".5g"), ("outlet_temperature", "temperature", ".4g"),
+             ("flow_coefficient", "dimensionless", ".5f"),
+             ("work_coefficient", "dimensionless", ".4f"),
+             ("machine_mach_number", "dimensionless", ".4f"),
+             ("machine_reynolds_number", "dimensionless", ".4g"))
+_U95 = {"polytropic_head": "polytropic_head", "polytropic_efficiency": "polytropic_efficiency",
+        "power": "power"}
+
+
+def _cell(value, kind, fmt):
+    if kind == "percent":
+        return show(None if value is None else 100.0 * value, "dimensionless", fmt)
+    return show(value, kind, fmt)
+
+
+def similarity_html(sim) -> str:
+    """HTML table of a compressor test: test, specified and converted figures, with U95."""
+    data = sim.to_dict()
+    expanded = sim.uncertainty.expanded if sim.uncertainty is not None else {}
+    head = "".join(f"<th>{h}</th>" for h in ("quantity", "test", "specified",
+                                             "test converted", "U95"))
+    rows = []
+    for name, kind, fmt in _SIM_ROWS:
+        f = FIELDS[name]
+        unit = {"percent": "%", "dimensionless": ""}.get(kind) or unit_of(kind)
+        label = f"{f.label} [{unit}]" if unit else f.label
+        u = expanded.get(_U95.get(name, ""), None)
+        cells = [_cell(data.get(f"{part}_{name}"), kind, fmt)
+                 for part in ("test", "specified", "converted")]
+        cells.append(_cell(u, kind, ".2g") if u is not None else "–")
+        rows.append("<tr>" + "".join(f"<td>{c}</td>" for c in [html.escape(label), *cells])
+                    + "</tr>")
+    return f"<table class='wb-verdicts'><tr>{head}</tr>{''.join(rows)}</table>"
 
 
 def verdicts_html(result) -> str:
@@ -91,6 +132,7 @@ def verdicts_html(result) -> str:
         rows += _point_rows(result.operating_point)
     if result.similarity is not None:
         rows += _similarity_rows(result.similarity)
+        return _table(rows) + similarity_html(result.similarity)
     return _table(rows) if rows else ""
 
 
