@@ -89,9 +89,9 @@ def _upload_content(change):
     return get("name"), bytes(get("content"))
 
 
-def _textarea(name, rows=9):
+def _textarea(name, rows=10):
     w = widgets.Textarea(value="", continuous_update=False, rows=rows,
-                         layout=widgets.Layout(width="560px"))
+                         layout=widgets.Layout(width="720px"))
     return input_class(w, name)
 
 
@@ -443,6 +443,17 @@ class CurvesPanel(Panel):
                               color="#6a3d9a")
         scaled = dataclasses.replace(scaled, style="dashed")
         return (scaled, points)
+
+    def set_stale(self, stale: bool) -> None:
+        """Grey the result rows and mark the verdict as belonging to earlier inputs."""
+        super().set_stale(stale)
+        text = self.verdict.value
+        note = ("<div class='wb-stale' style='color:#8a8a8a'>(stale: shown for the last "
+                "inputs that could be evaluated)</div>")
+        if stale and note not in text:
+            self.verdict.value = text + note
+        elif not stale:
+            self.verdict.value = text.replace(note, "")
 
     # ------------------------------------------------------------------ callbacks
     def _kind_changed(self, change):
