@@ -202,13 +202,14 @@ def test_curve_csv_upload_and_size_limit(panel):
 
 
 def test_readings_result_file_gives_pump_test_points(panel):
-    # a readings result file as the readings dashboard exports it (SI values)
+    # a readings result file as the readings dashboard exports it (SI values, speed in rpm
+    # as workbench.fieldtest.readers keeps it)
     csv = ("status,steady,inlet_volume_flow,isentropic_head,shaft_power,speed\n"
-           "ok,True,0.15,412.0,75000,154.3\n"
-           "ok,True,0.10,450.0,66000,154.5\n"
-           "inconsistent readings,False,0.12,,,154.4\n"
-           "ok,False,0.13,430.0,70000,154.4\n"
-           "ok,True,0.20,340.0,80000,154.4\n")
+           "ok,True,0.15,412.0,75000,1473\n"
+           "ok,True,0.10,450.0,66000,1475\n"
+           "inconsistent readings,False,0.12,,,1474\n"
+           "ok,False,0.13,430.0,70000,1474\n"
+           "ok,True,0.20,340.0,80000,1474\n")
     from workbench.fieldtest.session import read_table
 
     points = readings_points(read_table("r.csv", csv.encode()), "pump")
@@ -217,10 +218,12 @@ def test_readings_result_file_gives_pump_test_points(panel):
     assert points["test_flow"].tolist() == [0.10, 0.15, 0.20]
     assert points["test_head"][0] == pytest.approx(450.0 / 9.80665)
     assert STANDARD_GRAVITY == 9.80665
-    assert points["test_speed"] == pytest.approx((154.5 + 154.3 + 154.4) / 3)
+    # 1 rpm = 2 pi / 60 rad/s (NIST SP 811)
+    assert points["test_speed"] == pytest.approx(1474.0 * 2 * np.pi / 60)
     panel._readings_uploaded(_upload("r.csv", csv.encode()))
     assert "test points read from r.csv" in panel.message.text
     assert panel.result.data["acceptance"]["test_flow"] == pytest.approx([0.10, 0.15, 0.20])
+    assert panel.test_speed.value == pytest.approx(1474.0)
 
 
 def test_readings_file_without_result_columns_is_refused(panel):
@@ -228,3 +231,21 @@ def test_readings_file_without_result_columns_is_refused(panel):
     guarded(_upload("raw.csv", b"time,p1\n1,2\n2,3\n"))
     assert panel.message.level == "error" and "status" in panel.message.text
     assert panel.result is not None and panel.stale
+
+
+def test_readings_result_file_gives_the_mean_compressor_test_point():
+    panel = CurvesPanel("compressor-co2-shop-test-demo")
+    csv = ("status,steady,inlet_pressure,inlet_temperature,outlet_pressure,"
+           "reading_outlet_temperature,inlet_volume_flow,speed\n"
+           "ok,True,299000,299.8,546000,352.4,0.3861,6730\n"
+           "ok,True,301000,300.2,547600,352.72,0.3881,6742\n"
+           "ok,False,250000,280.0,500000,340.0,0.30,6000\n")
+    panel._readings_uploaded(_upload("compressor-results.csv", csv.encode()))
+    assert panel.message.level != "error", panel.message.text
+    test = panel.case["similarity"]["test"]
+    # the mean of the two usable rows (the unsteady row is left out); 1 rpm = 2 pi/60 rad/s
+    assert test["inlet_pressure"] == pytest.approx(300000.0, rel=1e-7)
+    assert test["discharge_temperature"] == pytest.approx(352.56, rel=1e-7)
+    assert test["speed"] == pytest.approx(6736.0 * 2 * np.pi / 60, rel=1e-7)
+    assert panel.result.similarity.test.speed == pytest.approx(test["speed"])
+    assert "Type 2" in panel.verdict.value

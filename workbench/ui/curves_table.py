@@ -9,7 +9,8 @@ refused with the line named.  Values are in the display units of the unit switch
 converted to SI here (:func:`workbench.ui.common.to_si`).
 
 :func:`readings_points` maps the result file of the readings dashboard
-(:meth:`workbench.fieldtest.session.SessionResult.export_csv`, SI values) to test points:
+(:meth:`workbench.fieldtest.session.SessionResult.export_csv`: SI values, shaft speed in
+rpm as the readings keep it) to test points:
 the rows with status ``ok`` (and steady, where the file says) give the flows, heads and
 powers of a pump test, or, averaged, the one test point of a compressor.
 """
@@ -201,7 +202,7 @@ def readings_points(raw, machine: str) -> dict:
         Pump: ``test_flow`` [m^3/s] (inlet volume flow), ``test_head`` [m] (isentropic head
         over standard gravity: for a liquid the isentropic head is the pressure rise over
         the density, common practice), ``test_power`` [W] (shaft power) and ``test_speed``
-        [rad/s] (mean speed), sorted by flow.  Compressor: the mean of the usable rows of
+        [rad/s] (mean speed; the file gives rpm), sorted by flow.  Compressor: the mean of the usable rows of
         the six readings of an ASME PTC 10 test point.
 
     Raises
@@ -220,11 +221,12 @@ def readings_points(raw, machine: str) -> dict:
                  "discharge_temperature": "reading_outlet_temperature",
                  "volume_flow": "inlet_volume_flow", "speed": "speed"}
         columns = {key: _numbers(raw, col, what) for key, col in names.items()}
+        columns["speed"] = columns["speed"] * _RPM  # the readings keep speed in rpm
     else:
         columns = {"test_flow": _numbers(raw, "inlet_volume_flow", what),
                    "test_head": _numbers(raw, "isentropic_head", what) / STANDARD_GRAVITY,
                    "test_power": _numbers(raw, "shaft_power", what),
-                   "speed": _numbers(raw, "speed", what)}
+                   "speed": _numbers(raw, "speed", what) * _RPM}
     for values in columns.values():
         use &= np.isfinite(values)
     if not use.any():
