@@ -14,6 +14,8 @@ import re
 
 import numpy as np
 import pytest
+from hypothesis import HealthCheck, given, settings
+from hypothesis import strategies as st
 
 from workbench import SAFETY_CAUTION
 from workbench.ui.curves_figure import trace_data
@@ -249,3 +251,37 @@ def test_readings_result_file_gives_the_mean_compressor_test_point():
     assert test["speed"] == pytest.approx(6736.0 * 2 * np.pi / 60, rel=1e-7)
     assert panel.result.similarity.test.speed == pytest.approx(test["speed"])
     assert "Type 2" in panel.verdict.value
+
+
+_CELL = st.one_of(st.floats(allow_nan=True, allow_infinity=True).map(repr),
+                  st.integers(-10**30, 10**30).map(str),
+                  st.text(alphabet="0123456789.eE+-,; \tnaifx()_'", max_size=12))
+
+
+@settings(max_examples=40, deadline=None,
+          suppress_health_check=[HealthCheck.function_scoped_fixture])
+@given(lines=st.lists(st.lists(_CELL, min_size=0, max_size=7), min_size=0, max_size=6),
+       target=st.sampled_from(["curve_text", "test_text"]))
+def test_any_table_text_gives_a_result_or_a_message(panel, lines, target):
+    # fuzz (property-based): whatever is typed, nothing escapes into the page and the last
+    # good result stays; the panel shows either a fresh result or an error message
+    text = "\n".join(", ".join(cells) for cells in lines)
+    getattr(panel, target).value = text
+    assert panel.result is not None
+    assert panel.stale == (panel.message.level == "error")
+    if panel.message.level == "error":
+        assert "unexpected error" not in panel.message.text, panel.message.text
+
+
+@settings(max_examples=60, deadline=None,
+          suppress_health_check=[HealthCheck.function_scoped_fixture])
+@given(name=st.sampled_from(["curve_speed", "min_flow", "max_flow", "test_speed", "g_flow",
+                             "g_head", "g_eff", "static_head"]),
+       value=st.floats(-1e12, 1e12, allow_nan=False))
+def test_any_entry_value_gives_a_result_or_a_message(panel, name, value):
+    # fuzz (property-based) over the number entries: no exception reaches the page
+    getattr(panel, name).set_display(value)
+    assert panel.result is not None
+    assert panel.stale == (panel.message.level == "error")
+    if panel.message.level == "error":
+        assert "unexpected error" not in panel.message.text, panel.message.text
