@@ -201,6 +201,9 @@ def test_curve_csv_upload_and_size_limit(panel):
     guarded = panel.guard(panel._curve_uploaded)
     guarded(_upload("big.csv", b"1, 2\n" * 50_000))
     assert panel.message.level == "error" and "bytes" in panel.message.text
+    guarded(_upload("empty.csv", b"flow, head\n"))
+    assert panel.message.level == "error" and "no points" in panel.message.text
+    assert panel.result.curve.flow[-1] == pytest.approx(900 / HOUR)  # unchanged
 
 
 def test_readings_result_file_gives_pump_test_points(panel):

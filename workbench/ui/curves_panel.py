@@ -252,9 +252,16 @@ class CurvesPanel(Panel):
         return curves_report(self.result)
 
     def recalculate(self) -> bool:
-        """Rebuild the case from the widgets and evaluate it; True when it succeeded."""
-        data = self._case_from_widgets()
-        result = evaluate_curves_case(copy.deepcopy(data))
+        """Rebuild the case from the widgets and evaluate it; True when it succeeded.
+
+        A refused entry is shown in the message area (the last good result stays, marked
+        stale) and False is returned."""
+        try:
+            data = self._case_from_widgets()
+            result = evaluate_curves_case(copy.deepcopy(data))
+        except Exception as exc:  # noqa: BLE001 - shown to the user
+            self.fail(exc)
+            return False
         self.case = data
         self._accept(result, "")
         return True
@@ -471,15 +478,16 @@ class CurvesPanel(Panel):
             return
         text = self._table_text(name, content)
         table = parse_table(text, curve_columns(self.case["kind"]), self.system, name)
-        if table["_rows"] and table["flow"] is not None:
-            with self.quiet():  # the old limits may lie outside the new curve
-                self.min_flow.set_si(float(table["flow"][0]))
-                self.max_flow.set_si(float(table["flow"][-1]))
-                self.curve_text.value = text
-        self.recalculate()
-        self.message.show(f"curve read from {name}; its flow limits are set to its first and "
-                          "last points: enter the minimum-flow or surge limit",
-                          cautions=self._cautions(self.result))
+        if not table["_rows"]:
+            raise InputError(f"{name}: no points found (one point a line, numbers only)")
+        with self.quiet():  # the old limits may lie outside the new curve
+            self.min_flow.set_si(float(table["flow"][0]))
+            self.max_flow.set_si(float(table["flow"][-1]))
+            self.curve_text.value = text
+        if self.recalculate():
+            self.message.show(f"curve read from {name}; its flow limits are set to its first "
+                              "and last points: enter the minimum-flow or surge limit",
+                              cautions=self._cautions(self.result))
 
     def _readings_uploaded(self, change):
         name, content = _upload_content(change)
@@ -494,9 +502,9 @@ class CurvesPanel(Panel):
             if kind == "pump":
                 self.test_speed.set_si(points.pop("test_speed") / _RPM)
             self.test_text.value = format_table(cols, points, self.system)
-        self.recalculate()
-        self.message.show(f"test points read from {name}", cautions=self._cautions(
-            self.result))
+        if self.recalculate():
+            self.message.show(f"test points read from {name}",
+                              cautions=self._cautions(self.result))
 
     def _case_uploaded(self, change):
         name, content = _upload_content(change)
