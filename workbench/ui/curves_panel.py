@@ -133,6 +133,8 @@ class CurvesPanel(Panel):
         self._ensure_plumbing()
         self.case = {}
         self._build(units)
+        if isinstance(case, str) and case in self.demo.options:
+            self.demo.value = case
         if not self.load_case(load_curves_demo(case) if isinstance(case, str) else case):
             raise CaseFileError(self.message.text)
 
@@ -466,7 +468,9 @@ class CurvesPanel(Panel):
     def _kind_changed(self, change):
         if self.case.get("kind") == change["new"]:
             return
-        if not self.load_case(load_curves_demo(KIND_DEMOS[change["new"]])):
+        if self.load_case(load_curves_demo(KIND_DEMOS[change["new"]])):
+            self.demo.value = KIND_DEMOS[change["new"]]
+        else:
             with self.quiet():
                 self.kind.value = change["old"]
 

@@ -130,10 +130,12 @@ def verdicts_html(result) -> str:
         rows += _pump_rows(result.acceptance)
     if result.operating_point is not None:
         rows += _point_rows(result.operating_point)
+    note = ("<div class='wb-note'>Tables, charts and the report use m³/h, m, kJ/kg, kW, bar, "
+            "°C and rpm whatever the unit switch.</div>")
     if result.similarity is not None:
         rows += _similarity_rows(result.similarity)
-        return _table(rows) + similarity_html(result.similarity)
-    return _table(rows) if rows else ""
+        return _table(rows) + similarity_html(result.similarity) + note
+    return _table(rows) + note if rows else ""
 
 
 def verdict_text(result) -> str:
