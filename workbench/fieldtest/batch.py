@@ -50,7 +50,7 @@ from ..fields import headers
 from ..machines import balance
 from ..machines.flows import mass_flow_from, standard_density
 from ..machines.turbomachine import energy_balance
-from ..units import MAX_MAGNITUDE
+from ..units import MAX_MAGNITUDE, MIN_MAGNITUDE
 from . import dask_batch
 from .options import (
     ARRAY_RESULTS,
@@ -339,6 +339,12 @@ def _flag_invalid(values, flow, flow_name, status, message):
                 status[i] = STATUS_INVALID
                 message[i] = (f"{_LABEL[name]} reading {data[i]:g} is not a finite number of "
                               f"magnitude at most {MAX_MAGNITUDE:g} (SI)")
+        # magnitudes below the input boundary's smallest (1e-300 W): refused as it refuses them
+        tiny = (data != 0) & (np.abs(data) < MIN_MAGNITUDE) & (status == STATUS_OK)
+        for i in np.flatnonzero(tiny):
+            status[i] = STATUS_INVALID
+            message[i] = (f"{_LABEL[name]} reading {data[i]:g} (SI) is too small to be "
+                          f"meaningful: give 0 or a magnitude of at least {MIN_MAGNITUDE:g}")
     for name in ("inlet_pressure", "outlet_pressure"):
         data = values[name]
         for i in np.flatnonzero((data <= 0) & (status == STATUS_OK)):
