@@ -28,6 +28,8 @@ from ..machines.turbomachine import energy_balance
 from ..properties import State
 from ..units import fraction, optional_si, positive, text, to_si
 
+#: Fields of the station table, in order (see :data:`workbench.fields.FIELDS`).
+STATION_FIELDS = ("pressure", "temperature", "enthalpy", "entropy", "quality", "mass_flow")
 MACHINE_KINDS = ("compressor", "turbine", "pump")
 
 
@@ -63,10 +65,13 @@ class Station:
     role: str = "main"
 
     def to_dict(self) -> dict:
-        """Flat dict of the station (SI units, keys end with their unit; see
-        :data:`workbench.fields.FIELDS`)."""
-        from .core import station_row
-        return station_row(self)
+        """Flat dict of the station: ``station``, ``role``, the :data:`STATION_FIELDS` under
+        their field names (SI units, see :data:`workbench.fields.FIELDS`) and ``phase``."""
+        st = self.state
+        values = {"pressure": st.P, "temperature": st.T, "enthalpy": st.h, "entropy": st.s,
+                  "quality": st.quality, "mass_flow": self.mass_flow}
+        return {"station": self.name, "role": self.role,
+                **{n: values[n] for n in STATION_FIELDS}, "phase": st.phase}
 
 
 @dataclass(frozen=True, eq=False)
