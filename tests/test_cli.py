@@ -399,3 +399,15 @@ def test_live_all_interfaces_requires_the_printed_token(live):
     assert _get(port, f"/?token={token}",
                 host=f"dashboards.plant.example:{port}").status_code == 200
     assert _get(port, f"/?token={token}", host=f"evil.example:{port}").status_code == 403
+
+
+def test_importing_the_main_module_runs_nothing(monkeypatch):
+    # Python's own rule (runpy): a module's "if __name__ == '__main__'" block runs only when
+    # the module is executed.  Tools that import every module (pkgutil walks, doc builders)
+    # must not start the command line, which would read their own sys.argv and exit.
+    import importlib
+
+    monkeypatch.setattr(sys, "argv", ["pytest", "--not-a-workbench-option"])
+    sys.modules.pop("workbench.__main__", None)
+    module = importlib.import_module("workbench.__main__")
+    assert module.main is cli.main

@@ -161,7 +161,7 @@ def test_train_whose_mass_balance_does_not_close_is_refused():
 
 def test_bad_train_steps_name_the_input():
     suction = AIR.state_PT(1e5, 300.0)
-    with pytest.raises(InputError, match="split fraction of 'bleed'") as info:
+    with pytest.raises(InputError, match="split fraction of step 'bleed'") as info:
         Train([Extraction("bleed", fraction=1.3)]).run(suction, 1.0)
     assert "1.3" in str(info.value)
     hot = Train([CompressorStage("stage 1", pressure_ratio=2, isentropic_efficiency=0.8),
@@ -188,7 +188,7 @@ def test_turbine_ratio_is_inlet_over_outlet_and_named_so():
     # The message for a bad turbine ratio must state the turbine's convention; a ratio is
     # refused when the step is made (the input boundary), before any run.
     for ratio in (-2.0, 0.0, 0.5, 1.0):
-        with pytest.raises(InputError, match="pressure ratio of 't'") as info:
+        with pytest.raises(InputError, match="pressure ratio of step 't'") as info:
             TurbineSection("t", pressure_ratio=ratio, isentropic_efficiency=0.8)
         assert "inlet over outlet" in str(info.value) and "above 1" in str(info.value)
     with pytest.raises(InputError, match="outlet over inlet"):
@@ -281,9 +281,9 @@ def test_intercooled_total_is_shaft_power():
 def test_an_extraction_must_leave_flow_for_the_next_step():
     # Splitter mass balance: a fraction 1 sends the whole flow into the branch and nothing
     # down the train (common practice) - refused when the step is made.
-    with pytest.raises(InputError, match="split fraction of 'bleed' is 1.*leaving none"):
+    with pytest.raises(InputError, match="split fraction of step 'bleed' is 1.*leaving none"):
         Extraction("bleed", fraction=1.0)
-    with pytest.raises(InputError, match="split fraction of 'bleed'"):
+    with pytest.raises(InputError, match="split fraction of step 'bleed'"):
         Extraction("bleed", fraction=-0.1)
     with pytest.raises(SpecificationError, match="exactly one"):
         Extraction("bleed", fraction=0.2, branch_mass_flow=1.0)
@@ -325,26 +325,26 @@ def test_tables_take_their_columns_from_the_fields_table():
 
 @pytest.mark.parametrize("make, match", [
     (lambda: CompressorStage("c", pressure_ratio="3", isentropic_efficiency=0.8),
-     "pressure ratio of 'c' must be a number"),
+     "pressure ratio of step 'c' must be a number"),
     (lambda: CompressorStage("c", P_out=True, isentropic_efficiency=0.8),
-     "outlet pressure of 'c' must be a number"),
+     "outlet pressure of step 'c' must be a number"),
     (lambda: CompressorStage("c", P_out=Q_(3, "m"), isentropic_efficiency=0.8),
-     "outlet pressure of 'c' was given in"),
+     "outlet pressure of step 'c' was given in"),
     (lambda: CompressorStage("c", P_out=3e5), "isentropic or polytropic efficiency"),
     (lambda: CompressorStage("c", P_out=3e5, isentropic_efficiency=1.2),
-     "isentropic efficiency of 'c' 1.2 is outside"),
+     "isentropic efficiency of step 'c' 1.2 is outside"),
     (lambda: CompressorStage("c", P_out=3e5, isentropic_efficiency=float("nan")),
-     "isentropic efficiency of 'c' must be a finite number"),
+     "isentropic efficiency of step 'c' must be a finite number"),
     (lambda: CompressorStage(5, P_out=3e5, isentropic_efficiency=0.8), "train step name"),
-    (lambda: Cooler("ic", outlet_temperature=None), "cooler outlet temperature of 'ic'"),
+    (lambda: Cooler("ic", outlet_temperature=None), "cooler outlet temperature of step 'ic'"),
     (lambda: Cooler("ic", outlet_temperature=300.0, pressure_drop=-1.0),
-     "pressure drop of 'ic' -1 Pa is outside"),
-    (lambda: ThrottleValve("v", pressure_drop=0.0), "pressure drop of 'v' 0 Pa is outside"),
-    (lambda: PipeRun("p", 1e-300), "diameter of 'p'"),
+     "pressure drop of step 'ic' -1 Pa is outside"),
+    (lambda: ThrottleValve("v", pressure_drop=0.0), "pressure drop of step 'v' 0 Pa is outside"),
+    (lambda: PipeRun("p", 1e-300), "diameter of step 'p'"),
     (lambda: PipeRun("p", 0.1, options="length=3"), "options of pipe 'p'"),
     (lambda: Admission("a", state="steam", branch_mass_flow=1.0), "state of admission 'a'"),
     (lambda: Admission("a", state=STEAM.state_PT(1e6, 500.0), branch_mass_flow=0),
-     "branch mass flow of 'a'"),
+     "branch mass flow of step 'a'"),
     (lambda: PressureLoss("d", pressure_drop=1e3, mass_flow=-1.0), "mass flow of step 'd'"),
     (lambda: Train("stage 1"), "list of steps"),
 ])

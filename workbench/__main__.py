@@ -4,4 +4,5 @@ import sys
 
 from .cli import main
 
-sys.exit(main())
+if __name__ == "__main__":  # importing the module (pkgutil walks, doc tools) runs nothing
+    sys.exit(main())

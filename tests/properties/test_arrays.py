@@ -108,9 +108,29 @@ def test_range_masks_agree_with_the_single_checks(water):
             assert accepted == ok, value
 
 
-def test_pair_arrays_repeat_scalars_and_refuse_shapes():
-    a, b = pair_arrays(1e5, [300.0, 310.0])
+def test_pair_arrays_repeat_scalars_and_refuse_by_name():
+    kinds = names = ("pressure", "temperature")
+    a, b = pair_arrays(1e5, [300.0, 310.0], kinds, names)
     assert a.tolist() == [1e5, 1e5] and b.tolist() == [300.0, 310.0]
-    for bad in (([1.0, 2.0], [1.0, 2.0, 3.0]), ([[1.0]], [1.0]), (["a"], [1.0])):
-        with pytest.raises(InputError, match="state arrays"):
-            pair_arrays(*bad)
+    # Quantities are converted to SI (1 bar = 1e5 Pa, 0 degC = 273.15 K: SI definitions)
+    a, b = pair_arrays(wb.Q_([1.0], "bar"), wb.Q_([0.0], "degC"), kinds, names)
+    assert a.tolist() == [1e5] and b.tolist() == [273.15]
+    for bad, named in ((([1.0, 2.0], [1.0, 2.0, 3.0]), "pressure and temperature"),
+                       (([[1.0]], [1.0]), "pressure"), ((["a"], [1.0]), "pressure"),
+                       (([1.0], [np.inf]), "temperature"), (([1.0], [1e300]), "temperature"),
+                       ((None, [1.0]), "pressure"), (([1.0], {"a": 1.0}), "temperature"),
+                       (([1.0], wb.Q_([300.0], "m**2")), "temperature")):
+        with pytest.raises(InputError, match=named):
+            pair_arrays(*bad, kinds, names)
+
+
+def test_states_PT_refuses_non_numbers_by_name_and_marks_nan_not_valid():
+    air = wb.Fluid("Air")
+    with pytest.raises(InputError, match="pressure"):
+        air.states_PT([np.inf, 1e5], [300.0, 300.0])
+    with pytest.raises(InputError, match="temperature"):
+        air.states_PT([1e5, 1e5], "300")
+    with pytest.raises(InputError, match="specific enthalpy"):
+        air.states_Ph([1e5], [1e300])
+    # NaN marks a missing reading: that entry is not valid, the others are
+    assert air.states_PT([1e5, np.nan], [300.0, 300.0]).valid.tolist() == [True, False]

@@ -68,11 +68,18 @@ def test_steam_array_flashes_equal_the_exact_ones_for_any_numbers(P, value, pair
     elif pair == "Ps":
         value = value / 1e4
     with np.errstate(all="ignore"):
-        if pair == "PT":
-            got, ref = STEAM.states_PT(P, value), STEAM._exact_states_PT(P, value)
-        else:
-            got = STEAM.states_Ph(P, value) if pair == "Ph" else STEAM.states_Ps(P, value)
-            ref = STEAM._exact_states_from(P, value, pair[1])
+        try:
+            if pair == "PT":
+                got = STEAM.states_PT(P, value)
+            else:
+                got = STEAM.states_Ph(P, value) if pair == "Ph" else STEAM.states_Ps(P, value)
+        except InputError:  # the array boundary refuses infinity and huge magnitudes
+            assert not (np.all(np.abs(np.nan_to_num(P)) < 1e12)
+                        and np.all(np.abs(np.nan_to_num(value)) < 1e12)
+                        and not np.isinf(P).any() and not np.isinf(value).any())
+            return
+        ref = (STEAM._exact_states_PT(P, value) if pair == "PT"
+               else STEAM._exact_states_from(P, value, pair[1]))
     assert (got.valid == ref.valid).all()
     v = got.valid
     assert np.allclose(got.h[v], ref.h[v], rtol=1e-9, atol=1e-6)

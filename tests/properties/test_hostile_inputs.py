@@ -13,6 +13,7 @@ from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 
 import workbench as wb
+from workbench.units import MAX_MAGNITUDE
 
 AIR = wb.Fluid("Air")
 STEAM = wb.Fluid("Water", backend="IF97")
@@ -77,7 +78,13 @@ def test_states_from_hostile_entries(fluid, pair, a, b):
 def test_state_arrays_from_random_entries(fluid, method, a, b):
     n = max(len(a), len(b))
     a, b = (a * n)[:n], (b * n)[:n]
-    states = getattr(fluid, method)(np.array(a), np.array(b))
+    try:
+        states = getattr(fluid, method)(np.array(a), np.array(b))
+    except wb.InputError as exc:
+        # the input boundary refuses array entries of magnitude above 1e12 (SI), by name
+        assert max(map(abs, a + b)) > MAX_MAGNITUDE
+        assert any(word in str(exc) for word in ("pressure", "temperature", "specific"))
+        return
     assert len(states) == n
     for i in np.flatnonzero(states.valid):
         _finite_state(states.state(int(i)))

@@ -57,6 +57,7 @@ from ..machines import balance
 from ..machines.flows import mass_flow_from, standard_density
 from ..machines.turbomachine import energy_balance
 from ..properties import fast
+from ..units import MAX_MAGNITUDE, MIN_MAGNITUDE
 from . import dask_batch
 from .options import (
     ARRAY_RESULTS,
@@ -342,12 +343,20 @@ def _flag_invalid(values, flow, flow_name, status, message):
     if flow_name:
         checked[flow_name] = flow
     for name, data in checked.items():
-        for i in np.flatnonzero(~np.isfinite(data) & (status == STATUS_OK)):
+        # NaN, infinity and magnitudes beyond the input boundary's (1e300 Pa)
+        for i in np.flatnonzero(~(np.abs(data) <= MAX_MAGNITUDE) & (status == STATUS_OK)):
             if np.isnan(data[i]):
                 status[i], message[i] = STATUS_MISSING, f"{_LABEL[name]} reading is missing"
             else:
                 status[i] = STATUS_INVALID
-                message[i] = f"{_LABEL[name]} reading {data[i]} is not a finite number"
+                message[i] = (f"{_LABEL[name]} reading {data[i]:g} is not a finite number of "
+                              f"magnitude at most {MAX_MAGNITUDE:g} (SI)")
+        # magnitudes below the input boundary's smallest (1e-300 W): refused as it refuses them
+        tiny = (data != 0) & (np.abs(data) < MIN_MAGNITUDE) & (status == STATUS_OK)
+        for i in np.flatnonzero(tiny):
+            status[i] = STATUS_INVALID
+            message[i] = (f"{_LABEL[name]} reading {data[i]:g} (SI) is too small to be "
+                          f"meaningful: give 0 or a magnitude of at least {MIN_MAGNITUDE:g}")
     for name in ("inlet_pressure", "outlet_pressure"):
         data = values[name]
         for i in np.flatnonzero((data <= 0) & (status == STATUS_OK)):
@@ -389,8 +398,9 @@ def _evaluate_arrays(options, mode, names, p1, t1, p2, second, flow, flow_name,
     if mode == "outlet":
         outlet = fluid.states_PT(p2_ok, second)
     else:  # the measured power is at the shaft
-        outlet = fluid.states_Ph(p2_ok, balance.outlet_enthalpy_from_power(
-            machine, inlet.h, second, m, eta_m))
+        h2 = balance.outlet_enthalpy_from_power(machine, inlet.h, second, m, eta_m)
+        with np.errstate(invalid="ignore"):  # beyond the input boundary: single-point API
+            outlet = fluid.states_Ph(p2_ok, np.where(np.abs(h2) <= MAX_MAGNITUDE, h2, np.nan))
     b = balance.steady_flow(machine, inlet, outlet, iso, mass_flow=m,
                             mechanical_efficiency=eta_m, basis=options.basis)
     settled = ok & (b.refusal == balance.OK)

@@ -128,6 +128,9 @@ def result_columns(results) -> list[str]:
     except TypeError:
         raise errors.InputError(f"results must be a sequence of result names, not a "
                                 f"{type(results).__name__}") from None
+    if not names:
+        raise errors.InputError(f"results is empty: name at least one result of "
+                                f"{', '.join(RESULTS)}")
     unknown = [r for r in names if not isinstance(r, str) or r not in RESULTS]
     if unknown:
         raise errors.InputError(f"unknown result(s) {', '.join(map(repr, unknown))}: choose from "

@@ -35,6 +35,7 @@ from fluids.friction import friction_factor as _fluids_friction_factor
 
 from ..errors import InputError, SpecificationError, WorkbenchError
 from ..properties import State
+from ..units import MIN_MAGNITUDE
 from . import checks
 from .turbomachine import STANDARD_GRAVITY
 
@@ -324,7 +325,8 @@ def pipe_segment(inlet: State, mass_flow, diameter, *, length=0.0, outlet_diamet
     elif L > 0:
         mu = _liquid_viscosity(inlet, viscosity)
         Re = rho * V1 * D1 / mu
-        f = darcy_friction_factor(Re, eps / D1)
+        # below 1e-12 (the input boundary's smallest magnitude) the pipe is hydraulically smooth
+        f = darcy_friction_factor(Re, eps / D1 if eps >= MIN_MAGNITUDE * D1 else 0.0)
     else:
         f = 0.0
     e_f = (f * L / D1 + K) * V1 ** 2 / 2

@@ -19,39 +19,52 @@ import CoolProp.CoolProp as CP
 import numpy as np
 
 from ..errors import InputError, PropertyError
+from ..units import to_si_array
 from . import solver
 from .state import StateArray, empty_columns, phase_words
 
 _ARRAY_LOCK = threading.Lock()
 
 
-def pair_arrays(a, b) -> tuple[np.ndarray, np.ndarray]:
-    """Two equal-length 1-D float arrays (a scalar or one-entry array is repeated).
+def pair_arrays(a, b, kinds: tuple[str, str], names: tuple[str, str]
+                ) -> tuple[np.ndarray, np.ndarray]:
+    """Two equal-length 1-D SI float arrays (a scalar or one-entry array is repeated).
+
+    Each input passes the input boundary (:func:`workbench.units.to_si_array`): sequences,
+    arrays and array Quantities of the right dimension are accepted; NaN marks a missing
+    entry (the state there is not valid).
+
+    Parameters
+    ----------
+    a, b : array_like or pint.Quantity
+        The two inputs (SI when plain numbers).
+    kinds : tuple of str
+        Quantity kinds of ``a`` and ``b`` (keys of :data:`workbench.units.SI_UNITS`).
+    names : tuple of str
+        Names of ``a`` and ``b`` in messages.
 
     Raises
     ------
     InputError
-        Arrays of more than one dimension, of different lengths, or not of numbers.
+        Text, None, dicts, infinity, magnitudes above 1e12 (SI), a wrong dimension, arrays of
+        more than one dimension or of different lengths; the message names the input.
 
     Examples
     --------
-    >>> [v.tolist() for v in pair_arrays(1e5, [300.0, 310.0])]
+    >>> [v.tolist() for v in pair_arrays(1e5, [300.0, 310.0], ("pressure", "temperature"),
+    ...                                  ("pressure", "temperature"))]
     [[100000.0, 100000.0], [300.0, 310.0]]
     """
-    try:
-        a = np.atleast_1d(np.asarray(a, dtype=float))
-        b = np.atleast_1d(np.asarray(b, dtype=float))
-    except (TypeError, ValueError, OverflowError):
-        raise InputError("state arrays take arrays of numbers") from None
-    if a.ndim != 1 or b.ndim != 1:
-        raise InputError("state arrays take one-dimensional arrays of numbers")
+    a = to_si_array(a, kinds[0], names[0])
+    b = to_si_array(b, kinds[1], names[1])
     if len(a) != len(b):
         if len(a) == 1:
             a = np.full(len(b), a[0])
         elif len(b) == 1:
             b = np.full(len(a), b[0])
         else:
-            raise InputError(f"state arrays need equal lengths, not {len(a)} and {len(b)}")
+            raise InputError(f"{names[0]} and {names[1]} arrays need equal lengths, not "
+                             f"{len(a)} and {len(b)}")
     return a, b
 
 
@@ -76,10 +89,17 @@ class ArrayFlashes:
     def states_PT(self, P, T) -> StateArray:
         """States from arrays of pressure [Pa] and temperature [K] (one flash per entry).
 
-        Same checks as :meth:`state_PT`; entries it would refuse are not valid.  IF97 water
-        and mixtures with a batch's property table take the fast path
+        Same checks as :meth:`state_PT`; entries it would refuse (NaN, out of range) are not
+        valid.  IF97 water and mixtures with a batch's property table take the fast path
         (:mod:`workbench.properties.fast`); other pure fluids are flashed by the property
         library's array interface, other mixture states entry by entry.
+
+        Raises
+        ------
+        InputError
+            Inputs that are not arrays of numbers (text, None, dicts), hold infinity or a
+            magnitude above 1e12 (SI), have the wrong dimension or more than one dimension,
+            or differ in length (see :func:`pair_arrays`).
 
         Examples
         --------
@@ -87,7 +107,7 @@ class ArrayFlashes:
         >>> wb.Fluid("Air").states_PT([1e5, -1.0], [300.0, 300.0]).valid.tolist()
         [True, False]
         """
-        P, T = pair_arrays(P, T)
+        P, T = pair_arrays(P, T, ("pressure", "temperature"), ("pressure", "temperature"))
         return fast_states(self, "PT", P, T, self._exact_states_PT)
 
     def _exact_states_PT(self, P, T) -> StateArray:
@@ -119,7 +139,9 @@ class ArrayFlashes:
         return self._states_from(P, s, "s")
 
     def _states_from(self, P, target, prop: str) -> StateArray:
-        P, target = pair_arrays(P, target)
+        kind = "specific_enthalpy" if prop == "h" else "specific_entropy"
+        P, target = pair_arrays(P, target, ("pressure", kind),
+                                ("pressure", kind.replace("_", " ")))
         return fast_states(self, "P" + prop, P, target,
                            lambda p, t: self._exact_states_from(p, t, prop))
 

@@ -81,7 +81,7 @@ def _fractions(composition) -> list[tuple]:
                          f"{MAX_COMPONENTS} are supported")
     pairs = []
     for key, value in composition.items():
-        label = text(key, "component name", max_length=60)
+        label = text(key, "component name of the composition", max_length=60)
         pairs.append((label, to_si(value, "dimensionless", f"fraction of {label}",
                                    low=0.0, high=1.0)))
     return pairs
@@ -110,9 +110,10 @@ def normalise_fractions(composition: dict) -> dict:
     if len(composition) > MAX_COMPONENTS:
         raise InputError(f"composition has {len(composition)} components: at most "
                          f"{MAX_COMPONENTS} are supported")
-    values = {text(k, "component name", max_length=60): to_si(v, "dimensionless",
-                                                              f"fraction of {k}", low=0.0)
-              for k, v in composition.items()}
+    values = {}
+    for key, value in composition.items():
+        label = text(key, "component name of the composition", max_length=60)
+        values[label] = to_si(value, "dimensionless", f"fraction of {label}", low=0.0)
     total = sum(values.values())
     if total <= 0:
         raise InputError(f"composition fractions sum to {total}; they must be positive")

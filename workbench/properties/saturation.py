@@ -149,6 +149,7 @@ class Saturation:
         """
         if self.is_mixture:
             raise InputError("saturation states are defined for pure fluids only")
+        P = self.check_pressure(P, "saturation pressure")
         cached = self._sat_cache.get(P)
         if cached is None:
             cached = (self.flash(CP.PQ_INPUTS, P, 0.0, f"saturation at P={P:.6g} Pa"),
@@ -162,12 +163,13 @@ class Saturation:
         """Saturation temperature [K] at pressure P [Pa] (pure fluids)."""
         if self.is_mixture:
             raise InputError("saturation temperature is defined for pure fluids only")
-        return self.saturation_states(P)[0].T
+        return self.saturation_states(self.check_pressure(P, "saturation pressure"))[0].T
 
     def saturation_pressure(self, T: float) -> float:
         """Saturation (vapour) pressure [Pa] at temperature T [K] (pure fluids)."""
         if self.is_mixture:
             raise InputError("saturation pressure is defined for pure fluids only")
+        T = to_si(T, "temperature", "saturation temperature", low=0.0, low_open=True)
         return self.flash(CP.QT_INPUTS, 0.0, T, f"saturation at T={T:.6g} K").P
 
     def dew_temperature(self, P: float) -> float | None:

@@ -28,10 +28,8 @@ from ..machines.mixer import MASS_BALANCE_TOLERANCE
 from ..machines.turbomachine import MachineResult
 from ..properties import State
 from ..units import positive
-from .steps import MACHINE_KINDS, Station, StepResult, check_state
+from .steps import MACHINE_KINDS, STATION_FIELDS, Station, StepResult, check_state
 
-#: Fields of the station table, in order (see :data:`workbench.fields.FIELDS`).
-STATION_FIELDS = ("pressure", "temperature", "enthalpy", "entropy", "quality", "mass_flow")
 #: Fields of the machine table, in order.
 MACHINE_FIELDS = ("inlet_pressure", "outlet_pressure", "pressure_ratio", "inlet_temperature",
                   "outlet_temperature", "mass_flow", "isentropic_efficiency", "specific_work",
@@ -43,13 +41,8 @@ TOTAL_FIELDS = ("absorbed_shaft_power", "delivered_shaft_power", "net_shaft_powe
 
 
 def station_row(station: Station) -> dict:
-    """Flat dict of a station: ``station``, ``role``, the :data:`STATION_FIELDS` under their
-    field names (SI units) and ``phase``."""
-    st = station.state
-    values = {"pressure": st.P, "temperature": st.T, "enthalpy": st.h, "entropy": st.s,
-              "quality": st.quality, "mass_flow": station.mass_flow}
-    return {"station": station.name, "role": station.role,
-            **{n: values[n] for n in STATION_FIELDS}, "phase": st.phase}
+    """Flat dict of a station (:meth:`Station.to_dict`)."""
+    return station.to_dict()
 
 
 def machine_row(result: MachineResult) -> dict:

@@ -159,6 +159,11 @@ def extraction_turbine(inlet: State, mass_flow, P_out, *, extraction_pressure,
     if feedwater_inlet is not None:
         feedwater_inlet = check_state(feedwater_inlet, "feedwater inlet state")
         feedwater_mass_flow = positive(feedwater_mass_flow, "mass_flow", "feedwater mass flow")
+    # the arguments by their own names (the steps would name them "HP section" outlet...)
+    mass_flow = positive(mass_flow, "mass_flow", "throttle mass flow")
+    P_out = positive(P_out, "pressure", "exhaust pressure (P_out)")
+    extraction_pressure = positive(extraction_pressure, "pressure", "extraction pressure")
+    extraction_mass_flow = positive(extraction_mass_flow, "mass_flow", "extraction mass flow")
     steps = []
     if valve_outlet_pressure is not None or valve_pressure_drop is not None:
         steps.append(ThrottleValve("inlet valve", P_out=valve_outlet_pressure,

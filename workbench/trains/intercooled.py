@@ -229,9 +229,9 @@ def _given_ratios(stage_ratios, n: int) -> list:
     if not isinstance(stage_ratios, (list, tuple, np.ndarray)):
         raise InputError(f"stage ratios must be 'equal', 'optimal' or a list of {n - 1} "
                          f"ratios, not {type(stage_ratios).__name__}")
-    ratios = [to_si(r, "dimensionless", f"pressure ratio of stage {i + 1}", low=1.0,
-                    low_open=True)
-              for i, r in enumerate(_per_item(list(stage_ratios), n - 1, "stage ratios"))]
+    given = _per_item(list(stage_ratios), n - 1, "stage ratios")
+    ratios = [to_si(r, "dimensionless", f"stage ratio {i + 1} (pressure ratio of stage "
+                    f"{i + 1})", low=1.0, low_open=True) for i, r in enumerate(given)]
     return ratios
 
 

@@ -16,6 +16,7 @@ Steady-flow mass and energy balances of each control volume (common practice).
 
 from __future__ import annotations
 
+import inspect
 from dataclasses import dataclass, field
 
 from ..errors import InputError, SpecificationError
@@ -27,6 +28,8 @@ from ..machines.turbomachine import energy_balance
 from ..properties import State
 from ..units import fraction, optional_si, positive, text, to_si
 
+#: Fields of the station table, in order (see :data:`workbench.fields.FIELDS`).
+STATION_FIELDS = ("pressure", "temperature", "enthalpy", "entropy", "quality", "mass_flow")
 MACHINE_KINDS = ("compressor", "turbine", "pump")
 
 
@@ -62,10 +65,13 @@ class Station:
     role: str = "main"
 
     def to_dict(self) -> dict:
-        """Flat dict of the station (SI units, keys end with their unit; see
-        :data:`workbench.fields.FIELDS`)."""
-        from .core import station_row
-        return station_row(self)
+        """Flat dict of the station: ``station``, ``role``, the :data:`STATION_FIELDS` under
+        their field names (SI units, see :data:`workbench.fields.FIELDS`) and ``phase``."""
+        st = self.state
+        values = {"pressure": st.P, "temperature": st.T, "enthalpy": st.h, "entropy": st.s,
+                  "quality": st.quality, "mass_flow": self.mass_flow}
+        return {"station": self.name, "role": self.role,
+                **{n: values[n] for n in STATION_FIELDS}, "phase": st.phase}
 
 
 @dataclass(frozen=True, eq=False)
@@ -156,23 +162,24 @@ class _MachineStep(_Step):
         _common(self)
         name = self.name
         basis = "inlet over outlet" if self.kind == "turbine" else "outlet over inlet"
-        ratio = optional_si(self.pressure_ratio, "dimensionless", f"pressure ratio of {name!r}")
+        ratio = optional_si(self.pressure_ratio, "dimensionless",
+                            f"pressure ratio of step {name!r}")
         if ratio is not None and not ratio > 1:
-            raise InputError(f"pressure ratio of {name!r} is {ratio:g}; it is quoted higher over "
-                             f"lower pressure ({basis} for a {self.kind}) and must be above 1")
-        P2 = optional_si(self.P_out, "pressure", f"outlet pressure of {name!r}", low=0.0,
+            raise InputError(f"pressure ratio of step {name!r} is {ratio:g}; it is quoted higher "
+                             f"over lower pressure ({basis} for a {self.kind}) and must be above 1")
+        P2 = optional_si(self.P_out, "pressure", f"outlet pressure of step {name!r}", low=0.0,
                          low_open=True)
         _exactly_one(self, P2, ratio, "outlet pressure or its pressure ratio")
         eta_s = None if self.isentropic_efficiency is None else fraction(
-            self.isentropic_efficiency, f"isentropic efficiency of {name!r}")
+            self.isentropic_efficiency, f"isentropic efficiency of step {name!r}")
         eta_p = None if self.polytropic_efficiency is None else fraction(
-            self.polytropic_efficiency, f"polytropic efficiency of {name!r}")
+            self.polytropic_efficiency, f"polytropic efficiency of step {name!r}")
         _exactly_one(self, eta_s, eta_p, "isentropic or polytropic efficiency")
         _set(self, P_out=P2, pressure_ratio=ratio, isentropic_efficiency=eta_s,
              polytropic_efficiency=eta_p,
              mechanical_efficiency=fraction(self.mechanical_efficiency,
-                                            f"mechanical efficiency of {name!r}"),
-             heat_loss=to_si(self.heat_loss, "power", f"heat loss of {name!r}"))
+                                            f"mechanical efficiency of step {name!r}"),
+             heat_loss=to_si(self.heat_loss, "power", f"heat loss of step {name!r}"))
 
     def outlet_pressure(self, inlet: State) -> float:
         """Outlet pressure [Pa] from ``inlet``: ``P_out``, or the ratio the right way round."""
@@ -249,13 +256,13 @@ class Cooler(_Step):
     def __post_init__(self):
         _common(self)
         n = self.name
-        water = [optional_si(t, "temperature", f"cooling water {end} temperature of {n!r}",
+        water = [optional_si(t, "temperature", f"cooling water {end} temperature of step {n!r}",
                              low=0.0, low_open=True)
                  for t, end in ((self.cooling_water_inlet_temperature, "inlet"),
                                 (self.cooling_water_outlet_temperature, "outlet"))]
         _set(self, outlet_temperature=positive(self.outlet_temperature, "temperature",
-                                               f"cooler outlet temperature of {n!r}"),
-             pressure_drop=to_si(self.pressure_drop, "pressure", f"pressure drop of {n!r}",
+                                               f"cooler outlet temperature of step {n!r}"),
+             pressure_drop=to_si(self.pressure_drop, "pressure", f"pressure drop of step {n!r}",
                                  low=0.0),
              cooling_water_inlet_temperature=water[0], cooling_water_outlet_temperature=water[1])
 
@@ -277,9 +284,9 @@ class ThrottleValve(_Step):
 
     def __post_init__(self):
         _common(self)
-        P2 = optional_si(self.P_out, "pressure", f"outlet pressure of {self.name!r}",
+        P2 = optional_si(self.P_out, "pressure", f"outlet pressure of step {self.name!r}",
                          low=0.0, low_open=True)
-        dP = optional_si(self.pressure_drop, "pressure", f"pressure drop of {self.name!r}",
+        dP = optional_si(self.pressure_drop, "pressure", f"pressure drop of step {self.name!r}",
                          low=0.0, low_open=True)
         _exactly_one(self, P2, dP, "outlet pressure or its pressure drop")
         _set(self, P_out=P2, pressure_drop=dP)
@@ -289,8 +296,8 @@ class ThrottleValve(_Step):
         if self.pressure_drop is not None:
             if not self.pressure_drop < inlet.P:
                 raise InputError(
-                    f"pressure drop of {self.name!r} is {self.pressure_drop / 1e5:.6g} bar; it "
-                    f"must lie in (0, {inlet.P / 1e5:.6g}) bar, below the inlet pressure")
+                    f"pressure drop of step {self.name!r} is {self.pressure_drop / 1e5:.6g} bar; "
+                    f"it must lie in (0, {inlet.P / 1e5:.6g}) bar, below the inlet pressure")
             P2 = inlet.P - self.pressure_drop
         return throttle(inlet, flow, P_out=P2)
 
@@ -301,6 +308,12 @@ class PressureLoss(ThrottleValve):
     Give ``pressure_drop`` [Pa]."""
 
     kind = "pressure loss"
+
+
+#: Keyword arguments of :func:`~workbench.machines.pipe.pipe_segment` a :class:`PipeRun`
+#: passes on (its ``options``).
+PIPE_OPTIONS = tuple(name for name, p in inspect.signature(pipe_segment).parameters.items()
+                     if p.kind is inspect.Parameter.KEYWORD_ONLY)
 
 
 @dataclass(frozen=True)
@@ -320,7 +333,12 @@ class PipeRun(_Step):
                                                          for k in self.options):
             raise InputError(f"options of pipe {self.name!r} must be a dict of keyword "
                              "arguments of pipe_segment")
-        _set(self, diameter=positive(self.diameter, "length", f"diameter of {self.name!r}"),
+        unknown = sorted(set(self.options) - set(PIPE_OPTIONS))
+        if unknown:
+            raise InputError(f"options of pipe {self.name!r}: unknown option(s) "
+                             f"{', '.join(map(repr, unknown))}; choose from "
+                             f"{', '.join(PIPE_OPTIONS)}")
+        _set(self, diameter=positive(self.diameter, "length", f"diameter of step {self.name!r}"),
              options=dict(self.options))
 
     def _device(self, inlet, flow):
@@ -343,12 +361,12 @@ class Extraction(_Step):
     def __post_init__(self):
         _common(self)
         n = self.name
-        f = optional_si(self.fraction, "dimensionless", f"split fraction of {n!r}", low=0.0,
+        f = optional_si(self.fraction, "dimensionless", f"split fraction of step {n!r}", low=0.0,
                         high=1.0)
         if f == 1.0:
-            raise InputError(f"split fraction of {n!r} is 1: the branch would take the whole "
+            raise InputError(f"split fraction of step {n!r} is 1: the branch would take the whole "
                              "flow, leaving none for the next step; it must lie in [0, 1)")
-        b = optional_si(self.branch_mass_flow, "mass_flow", f"branch mass flow of {n!r}",
+        b = optional_si(self.branch_mass_flow, "mass_flow", f"branch mass flow of step {n!r}",
                         low=0.0)
         _exactly_one(self, b, f, "branch mass flow or its fraction")
         _set(self, fraction=f, branch_mass_flow=b)
@@ -385,7 +403,7 @@ class Admission(_Step):
         if self.branch_mass_flow is None:
             raise SpecificationError(f"admission {self.name!r} needs its branch mass flow")
         _set(self, branch_mass_flow=positive(self.branch_mass_flow, "mass_flow",
-                                             f"branch mass flow of {self.name!r}"))
+                                             f"branch mass flow of step {self.name!r}"))
 
     def _apply(self, inlet, flow):
         result = mixer([(inlet, flow), (self.state, self.branch_mass_flow)])
