@@ -562,18 +562,22 @@ class ResultRows(widgets.VBox):
         Field names (keys of ``FIELDS``), in the order shown.
     percent : collection of str
         Field names shown in percent.
-
-    Labels are those of the table: a panel has no second list of result names.
+    context : dict, optional
+        Field name -> a few words that say where the value comes from, shown after the
+        table's label ("volume flow (operating point)").  Labels themselves are those of the
+        table: a panel has no second list of result names.
     """
 
-    def __init__(self, names, percent=()):
+    def __init__(self, names, percent=(), context=None):
         from ..fields import field
 
+        context = dict(context or {})
         self.fields = {name: field(name) for name in names}
         self.kinds = {name: "percent" if name in percent else f.kind
                       for name, f in self.fields.items()}
-        self.rows = {hook(name): ResultField(hook(name), f.label, self.kinds[name])
-                     for name, f in self.fields.items()}
+        self.rows = {hook(name): ResultField(
+            hook(name), f.label + (f" ({context[name]})" if name in context else ""),
+            self.kinds[name]) for name, f in self.fields.items()}
         super().__init__(list(self.rows.values()))
 
     def show(self, values: dict, system, ambient_pressure: float = DEFAULT_AMBIENT,

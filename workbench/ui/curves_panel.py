@@ -72,7 +72,7 @@ _RPM = 2.0 * math.pi / 60.0
 KIND_DEMOS = {"pump": "pump-loop-demo", "compressor": "compressor-co2-shop-test-demo"}
 RULES = {"pump": [(f"ISO 9906 grade {g}", g) for g in GRADES],
          "compressor": [("ASME PTC 10 Type 1", "1"), ("ASME PTC 10 Type 2", "2")]}
-POINT_FIELDS = ("volume_flow", "total_head", "efficiency", "power", "surge_margin",
+POINT_FIELDS = ("volume_flow", "total_head", "efficiency", "shaft_power", "surge_margin",
                 "npsh_available", "npsh_required", "npsh_margin")
 ACCEPTANCE_FIELDS = ("head_deviation", "flow_deviation", "flow_head_margin",
                      "efficiency_margin", "power_margin")
@@ -187,9 +187,8 @@ class CurvesPanel(Panel):
             w.observe(guard(lambda _c: self.recalculate()), names="value")
         self.rows = self.add_result_widget(ResultRows(
             POINT_FIELDS + ACCEPTANCE_FIELDS, percent=_PERCENT,
-            labels={"volume_flow": "operating flow", "total_head": "operating head",
-                    "efficiency": "efficiency (curve)", "power": "power input (curve)",
-                    "surge_margin": "minimum-flow margin"}))
+            context={"volume_flow": "operating point", "total_head": "operating point",
+                     "efficiency": "curve", "shaft_power": "curve"}))
         for name in ("total_head", "npsh_available", "npsh_required", "npsh_margin"):
             self.rows.kinds[name] = "elevation"  # heads in m (or ft), not mm
         self.verdict = result_class(widgets.HTML(""), "verdict")
@@ -397,6 +396,8 @@ class CurvesPanel(Panel):
         values = {}
         if result.operating_point is not None:
             values.update(result.operating_point.to_dict())
+            # the curve's power is the power input at the coupling: a shaft power
+            values["shaft_power"] = values.pop("power", None)
         if result.acceptance is not None:
             values.update({k: result.acceptance.to_dict().get(k) for k in ACCEPTANCE_FIELDS})
         values = {k: v for k, v in values.items() if isinstance(v, (int, float))}
