@@ -14,6 +14,10 @@ saturation   saturation dome and states of pure fluids; dew point and dew line o
 arrays       array flashes (StateArray) and their masks
 solver       the one temperature solver (P-h and P-s of mixtures, IF97 consistency)
 transport    viscosity and speed of sound
+if97_vec     the IAPWS-IF97 region 1, 2 and 4 equations over whole arrays (batches)
+tables       error-controlled property tables of a mixture over a batch's P-T range
+envelope     a mixture's dew line from one phase-envelope call, checked for a whole frame
+fast         the hook of the fast batch paths into the array flashes (prepare, forget)
 
 Supported regions
 -----------------
