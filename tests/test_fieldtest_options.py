@@ -80,7 +80,9 @@ def test_result_units_come_from_the_fields_table():
     assert RESULTS["pump_head"].unit == "m"
     out = evaluate(frame(), "compressor", AIR, results=("shaft_power", "isentropic_efficiency"),
                    keep_inputs=False)
-    assert list(with_unit_headers(out).columns) == ["status", "message", "shaft power [W]",
+    # status, message and the path each row took (exact or table), then the results
+    assert list(with_unit_headers(out).columns) == ["status", "message", "path",
+                                                    "shaft power [W]",
                                                     "isentropic efficiency [-]"]
 
 
