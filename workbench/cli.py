@@ -393,6 +393,9 @@ def serve(host: str, port: int, open_browser: bool, token: str | None = None,
     env.pop("JUPYTER_TOKEN_FILE", None)
     if token is not None:
         env["JUPYTER_TOKEN"] = token  # jupyter_server's IdentityProvider.token default
+    # traitlets warns that a dict option given as JSON is deprecated; it is still the only
+    # form that keeps the websocket limit an integer: keep the server's console quiet
+    env.setdefault("PYTHONWARNINGS", "ignore::DeprecationWarning")
     names = dashboard_names(folder)
     urls = dashboard_urls(host, port, names, token)
     print("Serving the workbench dashboards (Ctrl-C stops):")
