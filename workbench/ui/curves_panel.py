@@ -187,8 +187,8 @@ class CurvesPanel(Panel):
             w.observe(guard(lambda _c: self.recalculate()), names="value")
         self.rows = self.add_result_widget(ResultRows(
             POINT_FIELDS + ACCEPTANCE_FIELDS, percent=_PERCENT,
-            context={"volume_flow": "operating point", "total_head": "operating point",
-                     "efficiency": "curve", "shaft_power": "curve"}))
+            context={"volume_flow": "operating point", "efficiency": "curve",
+                     "shaft_power": "curve"}))
         for name in ("total_head", "npsh_available", "npsh_required", "npsh_margin"):
             self.rows.kinds[name] = "elevation"  # heads in m (or ft), not mm
         self.verdict = result_class(widgets.HTML(""), "verdict")
