@@ -210,6 +210,8 @@ def test_test_data_dashboard_shows_table_chart_and_reports_a_bad_tolerance(
     assert "inlet pressure" in message and "-0.5" in message
     # the last good table stays, its summary marked stale
     assert page.locator(".wb-result-table tr.wb-row-flagged").count() == 6
+    # the summary's stale mark is a separate widget update that may arrive after the message
+    page.wait_for_selector(".wb-result-summary .wb-stale", timeout=UPDATE_TIMEOUT)
     assert page.locator(".wb-result-summary .wb-stale").count() == 1
     page.screenshot(path=str(screenshots / "test-data-bad-input.png"), full_page=True)
 
@@ -254,6 +256,8 @@ def test_test_data_dashboard_unit_switch_and_broken_file(served_dashboards, page
     message = text_of(page, ".wb-message")
     assert "binary data" in message
     assert page.locator(".wb-result-table tr.wb-row-flagged").count() == 6
+    # the summary's stale mark is a separate widget update that may arrive after the message
+    page.wait_for_selector(".wb-result-summary .wb-stale", timeout=UPDATE_TIMEOUT)
     assert page.locator(".wb-result-summary .wb-stale").count() == 1
     assert page.locator(".wb-result-progress").count() == 1  # present, hidden when idle
     assert not page.locator(".wb-result-progress").first.is_visible()
