@@ -615,8 +615,5 @@ def read_readings(path, column_map: dict, units: dict, *, sheet_name=0,
                                decimal=decimal, thousands=thousands)
 
 
-#: Former private name of :func:`column_numbers` (kept for modules not yet moved to it).
-_numbers = column_numbers
-
 __all__ = ["READING_KINDS", "PROBLEM_COLUMN", "MAX_FILE_BYTES", "read_readings", "read_table",
            "readings_from_frame", "convert_values", "parse_unit", "column_numbers"]

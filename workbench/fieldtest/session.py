@@ -59,8 +59,6 @@ from .uncertainty import propagate_uncertainty
 #: Largest readings file accepted [bytes]: 20 MiB, about 200,000 rows of ten readings.  A
 #: larger file is refused with a message before it is parsed (split the logger export).
 UPLOAD_LIMIT_BYTES = 20 * 1024 * 1024
-#: File name suffixes read as Excel workbooks; every other file is read as delimited text.
-EXCEL_SUFFIXES = (".xlsx", ".xlsm")
 #: Rows (spread over the file) at which the uncertainty is propagated for the error bars.
 UNCERTAINTY_ROWS = 12
 #: Default steady-state window [rows].
@@ -93,7 +91,8 @@ def read_table(name: str, content: bytes, *, limit: int = UPLOAD_LIMIT_BYTES) ->
     Parameters
     ----------
     name : str
-        File name; a suffix of :data:`EXCEL_SUFFIXES` reads an Excel workbook, anything else
+        File name, used in messages; an Excel workbook is recognised by its content or its
+        name (:func:`workbench.fieldtest.readers.read_table`), anything else is read as
         delimited text (the delimiter is detected).
     content : bytes
         The file's bytes.
@@ -729,7 +728,7 @@ def _uncertainty_sample(readings, results, setup, fluid, report) -> pd.DataFrame
                                        "dominant_efficiency", "dominant_shaft_power"])
 
 
-__all__ = ["DEFAULT_UNCERTAINTY", "EXCEL_SUFFIXES", "SESSION_RESULTS", "STEADY_DEFAULTS",
+__all__ = ["DEFAULT_UNCERTAINTY", "SESSION_RESULTS", "STEADY_DEFAULTS",
            "STEADY_WINDOW", "UNCERTAINTY_ROWS", "UPLOAD_LIMIT_BYTES", "SessionResult",
            "SessionSetup", "default_tolerance", "evaluate_session", "parse_fluid",
            "read_table", "reflag", "setup_from_file", "tolerances_to_si"]

@@ -1,7 +1,7 @@
 """Shared input checks of the devices (throttle, nozzle, diffuser, mixer, splitter, heat
 exchanger, cooler, pipe): one place for what every device validates.
 
-The numeric checks are thin wrappers over the project's one input boundary
+The numeric checks are the project's one input boundary itself
 (:mod:`workbench.units`: ``to_si``, ``positive``, ``not_negative``, ``fraction``,
 ``choice``), so every device refuses bool, text, None, NaN, infinity, overflow, arrays and
 Quantities of the wrong dimension by the input's name.  What is added here is device
@@ -48,34 +48,15 @@ def state(value, name: str) -> State:
     return value
 
 
-def positive(value, kind: str, name: str) -> float:
-    """SI value that must be above zero (a flow, a diameter, an area)."""
-    return units.positive(value, kind, name)
-
-
-def not_negative(value, kind: str, name: str) -> float:
-    """SI value that must not be below zero (a length, a loss coefficient, a velocity)."""
-    return units.not_negative(value, kind, name)
-
-
-def number(value, kind: str, name: str, **bounds) -> float:
-    """SI value of any sign (an elevation change, a heat loss), range-checked by ``bounds``."""
-    return units.to_si(value, kind, name, **bounds)
-
-
-def optional(value, kind: str, name: str, **bounds):
-    """Like :func:`number`, but ``None`` passes through (an optional entry)."""
-    return units.optional_si(value, kind, name, **bounds)
-
-
-def fraction(value, name: str, *, allow_zero: bool = False) -> float:
-    """A fraction in (0, 1] (an efficiency), or [0, 1] with ``allow_zero`` (a split)."""
-    return units.fraction(value, name, allow_zero=allow_zero)
-
-
-def choice(value, options, name: str) -> str:
-    """One of the option strings, refused by name otherwise."""
-    return units.choice(value, options, name)
+#: The numeric checks are the input boundary's own functions, under the names the devices
+#: use: ``number`` is :func:`workbench.units.to_si`, ``optional`` is
+#: :func:`workbench.units.optional_si`.
+positive = units.positive
+not_negative = units.not_negative
+number = units.to_si
+optional = units.optional_si
+fraction = units.fraction
+choice = units.choice
 
 
 def below_inlet(device: str, P_out: float, inlet: State, reason: str) -> None:

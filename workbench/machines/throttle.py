@@ -23,14 +23,6 @@ from dataclasses import dataclass
 from ..properties import State
 from . import checks
 
-# Kept for callers that import these from here (workbench.trains); use .checks instead.
-_quality = checks.quality
-
-
-def _check_state(name: str, state) -> State:
-    """Old argument order of :func:`checks.state` (name first), for workbench.trains."""
-    return checks.state(state, name)
-
 
 @dataclass(frozen=True, eq=False)
 class ThrottleResult:

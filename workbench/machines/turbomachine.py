@@ -49,6 +49,7 @@ from ..polytropic import polytropic_outlet
 from ..properties import State
 from ..units import choice, fraction, not_negative, optional_si, positive, to_si
 from . import balance as _balance
+from . import checks
 from .balance import BASES, KINDS, RAISES_PRESSURE, STANDARD_GRAVITY
 from .flows import velocity_from_diameter
 from .result import MachineResult
@@ -86,19 +87,13 @@ class _Inputs(NamedTuple):
     mechanical_efficiency: float
 
 
-def _check_state(name, state):
-    if not isinstance(state, State):
-        raise InputError(f"{name} must be a State from Fluid.state(...), not {type(state).__name__}")
-    return state
-
-
 def _convert(kind, inlet, outlet, P_out, isentropic_efficiency, polytropic_efficiency, power,
              mass_flow, velocity_in, velocity_out, diameter_in, diameter_out, elevation_change,
              heat_loss, mechanical_efficiency, basis) -> _Inputs:
     """Every argument through the input boundary; which one fixes the outlet, and P_out."""
     kind = choice(kind, KINDS, "machine kind")
     basis = _given(basis, _STATIC, choice, BASES, "efficiency basis")
-    inlet = _check_state("inlet", inlet)
+    inlet = checks.state(inlet, "inlet")
     m = _given(mass_flow, _ONE, positive, "mass_flow", "mass flow")
     v1 = _given(velocity_in, _ZERO, not_negative, "velocity", "inlet velocity")
     v2 = _given(velocity_out, _ZERO, not_negative, "velocity", "outlet velocity")
@@ -129,7 +124,7 @@ def _convert(kind, inlet, outlet, P_out, isentropic_efficiency, polytropic_effic
             "efficiency, a polytropic efficiency or a measured power (the last three with the "
             f"outlet pressure); got {' and '.join(modes) if modes else 'none of them'}")
     if outlet is not None:
-        outlet = _check_state("outlet", outlet)
+        outlet = checks.state(outlet, "outlet")
         if outlet.fluid != inlet.fluid:
             raise InputError(f"inlet ({inlet.fluid.name}) and outlet ({outlet.fluid.name}) are "
                              "states of different fluids")

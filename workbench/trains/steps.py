@@ -20,6 +20,7 @@ import inspect
 from dataclasses import dataclass, field
 
 from ..errors import InputError, SpecificationError
+from ..machines import checks
 from ..machines.heat_exchanger import cooler as _cooler
 from ..machines.mixer import MASS_BALANCE_TOLERANCE, mixer, splitter
 from ..machines.pipe import pipe_segment
@@ -33,12 +34,8 @@ STATION_FIELDS = ("pressure", "temperature", "enthalpy", "entropy", "quality", "
 MACHINE_KINDS = ("compressor", "turbine", "pump")
 
 
-def check_state(value, name: str) -> State:
-    """``value`` if it is a :class:`~workbench.properties.State`, else an InputError naming it."""
-    if not isinstance(value, State):
-        raise InputError(f"{name} must be a State from Fluid.state(...), not "
-                         f"{type(value).__name__}")
-    return value
+#: A state argument, or an InputError naming it (the devices' check).
+check_state = checks.state
 
 
 # ----------------------------------------------------------------------------- stations
