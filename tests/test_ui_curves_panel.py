@@ -20,12 +20,7 @@ from hypothesis import strategies as st
 from workbench import SAFETY_CAUTION
 from workbench.ui.curves_figure import trace_data
 from workbench.ui.curves_panel import CurvesPanel
-from workbench.ui.curves_table import (
-    STANDARD_GRAVITY,
-    measured_columns,
-    parse_table,
-    readings_points,
-)
+from workbench.ui.curves_table import measured_columns, parse_table
 
 HOUR = 3600.0
 
@@ -215,19 +210,11 @@ def test_readings_result_file_gives_pump_test_points(panel):
            "inconsistent readings,False,0.12,,,1474\n"
            "ok,False,0.13,430.0,70000,1474\n"
            "ok,True,0.20,340.0,80000,1474\n")
-    from workbench.fieldtest.session import read_table
-
-    points = readings_points(read_table("r.csv", csv.encode()), "pump")
-    # only ok and steady rows, sorted by flow; head = isentropic head / g for a liquid
-    # (g = 9.80665 m/s2, ISO 80000-3)
-    assert points["test_flow"].tolist() == [0.10, 0.15, 0.20]
-    assert points["test_head"][0] == pytest.approx(450.0 / 9.80665)
-    assert STANDARD_GRAVITY == 9.80665
-    # 1 rpm = 2 pi / 60 rad/s (NIST SP 811)
-    assert points["test_speed"] == pytest.approx(1474.0 * 2 * np.pi / 60)
     panel._readings_uploaded(_upload("r.csv", csv.encode()))
     assert "test points read from r.csv" in panel.message.text
+    # only ok and steady rows, sorted by flow (the conversion itself: tests/curves)
     assert panel.result.data["acceptance"]["test_flow"] == pytest.approx([0.10, 0.15, 0.20])
+    assert panel.result.data["acceptance"]["test_head"][0] == pytest.approx(450.0 / 9.80665)
     assert panel.test_speed.value == pytest.approx(1474.0)
 
 

@@ -210,6 +210,31 @@ def test_case_files(where, value):
         assert "<svg" in curves_report(result)
 
 
+_CELLS = st.one_of(hostile, st.sampled_from(["ok", "True", "1e400", "-0", " 3 ", "nan"]))
+
+
+@settings(max_examples=150, **SETTINGS)
+@given(machine=st.one_of(st.sampled_from(["pump", "compressor"]), hostile),
+       columns=st.lists(st.sampled_from(["status", "steady", "inlet_volume_flow", "speed",
+                                         "isentropic_head", "shaft_power", "inlet_pressure",
+                                         "inlet_temperature", "outlet_pressure",
+                                         "reading_outlet_temperature"]),
+                        min_size=0, max_size=10, unique=True),
+       cells=st.lists(_CELLS, min_size=0, max_size=30), raw=hostile)
+def test_points_from_readings(machine, columns, cells, raw):
+    import pandas as pd
+
+    from workbench.curves import points_from_readings
+
+    rows = [cells[i:i + len(columns)] for i in range(0, len(cells), max(len(columns), 1))]
+    table = pd.DataFrame([r for r in rows if len(r) == len(columns)], columns=columns,
+                         dtype=object)
+    for out in (_call(points_from_readings, table, machine),
+                _call(points_from_readings, raw, "pump")):
+        if out is not None:
+            assert all(len(np.atleast_1d(v)) for v in out.values())
+
+
 @settings(max_examples=200, **SETTINGS)
 @given(which=st.sampled_from(["reynolds_factor", "mach_limits", "demo", "npsh", "throttle",
                               "from_dict", "best", "write", "groups"]),

@@ -16,6 +16,7 @@ from .cases import (
     evaluate_curves_case,
     list_curves_demos,
     load_curves_demo,
+    points_from_readings,
 )
 from .characteristic import FITS, HEAD_KINDS, PerformanceCurve
 from .charts import Chart, case_charts
@@ -36,5 +37,6 @@ __all__ = ["Chart", "case_charts", "CurvesCaseResult", "evaluate_curves_case", "
            "FanTestResult", "OperatingPoint", "PerformanceCurve", "PipeSection",
            "PumpAcceptanceResult", "SimilarityCheck", "SimilarityGroups", "SystemCurve",
            "ToleranceGrade", "compressibility_coefficient", "compressor_similarity",
-           "curves_report", "fan_test", "mach_factor", "operating_point", "pump_acceptance",
+           "curves_report", "fan_test", "mach_factor", "operating_point", "points_from_readings",
+           "pump_acceptance",
            "write_curves_report"]

@@ -24,11 +24,17 @@ constructors.
 from __future__ import annotations
 
 import json
+import math
+import re
 from dataclasses import dataclass, field
 from importlib import resources
 
-from ..errors import CaseFileError, WorkbenchError
+import numpy as np
+
+from ..errors import CaseFileError, InputError, ReadingsError, WorkbenchError
+from ..machines.balance import STANDARD_GRAVITY
 from ..properties import Fluid
+from ..units import choice
 from .characteristic import PerformanceCurve
 from .pump_acceptance import PumpAcceptanceResult, pump_acceptance
 from .similarity import CompressorSimilarityResult, compressor_similarity
@@ -210,5 +216,103 @@ def load_curves_demo(name: str) -> dict:
     return json.loads(text)
 
 
+# ---- test points from the readings dashboard's result file -----------------------------------
+_NUMBER = re.compile(r"[-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?")
+#: One revolution a minute in rad/s (NIST SP 811).
+_RPM = 2.0 * math.pi / 60.0
+_READINGS = "readings result file"
+#: Compressor test-point keys and the result-file columns they come from.
+_COMPRESSOR_COLUMNS = {"inlet_pressure": "inlet_pressure",
+                       "inlet_temperature": "inlet_temperature",
+                       "discharge_pressure": "outlet_pressure",
+                       "discharge_temperature": "reading_outlet_temperature",
+                       "volume_flow": "inlet_volume_flow", "speed": "speed"}
+
+
+def _file_numbers(raw, column):
+    if column not in raw.columns:
+        raise ReadingsError(f"{_READINGS}: the file has no column {column!r}; export the "
+                            "result file of the readings dashboard")
+    return np.array([float(cell) if _NUMBER.fullmatch(cell) else math.nan
+                     for cell in (str(c).strip() for c in raw[column])])
+
+
+def _usable_rows(raw):
+    """Rows with status ok and, where the file says, steady."""
+    ok = np.array([str(s).strip() == "ok" for s in raw["status"]], dtype=bool)
+    if "steady" in raw.columns:
+        ok &= np.array([str(s).strip().lower() == "true" for s in raw["steady"]], dtype=bool)
+    return ok
+
+
+def points_from_readings(raw, machine: str) -> dict:
+    """Test points from the readings dashboard's result file (SI values, speed in rpm).
+
+    Parameters
+    ----------
+    raw : pandas.DataFrame
+        The file as text cells (:func:`workbench.fieldtest.session.read_table`); the
+        columns of :meth:`workbench.fieldtest.session.SessionResult.export_csv`.
+    machine : {"pump", "compressor"}
+        Pump: ``test_flow`` [m^3/s] (inlet volume flow), ``test_head`` [m] (isentropic head
+        over standard gravity: for a liquid the isentropic head is the pressure rise over the
+        density, common practice), ``test_power`` [W] (shaft power), sorted by flow, and
+        ``test_speed`` [rad/s] (mean speed).  Compressor: the mean of the usable rows of the
+        six readings of an ASME PTC 10 test point (``inlet_pressure`` [Pa],
+        ``inlet_temperature`` [K], ``discharge_pressure`` [Pa], ``discharge_temperature``
+        [K], ``volume_flow`` [m^3/s], ``speed`` [rad/s]), each an array of one value.
+
+    Returns
+    -------
+    dict
+        Arrays [SI] as above, from the rows with status ``ok`` (and steady, where the file
+        has a ``steady`` column) with a number in every column used.
+
+    Raises
+    ------
+    ReadingsError
+        A column missing, or no usable row.
+    InputError
+        ``raw`` is not a table, or ``machine`` is not one of the two.
+
+    Examples
+    --------
+    >>> import pandas as pd
+    >>> raw = pd.DataFrame({"status": ["ok"], "inlet_volume_flow": ["0.1"],
+    ...                     "isentropic_head": ["490.3325"], "shaft_power": ["60000"],
+    ...                     "speed": ["1500"]})
+    >>> points = points_from_readings(raw, "pump")
+    >>> round(float(points["test_head"][0]), 6), round(points["test_speed"], 3)
+    (50.0, 157.08)
+    """
+    machine = choice(machine, ("pump", "compressor"), "machine")
+    if not hasattr(raw, "columns") or not hasattr(raw, "__getitem__"):
+        raise InputError(f"{_READINGS} must be a table (pandas DataFrame), not "
+                         f"{type(raw).__name__}")
+    if "status" not in raw.columns:
+        raise ReadingsError(f"{_READINGS}: no status column; export the result file of the "
+                            "readings dashboard")
+    use = _usable_rows(raw)
+    if machine == "compressor":
+        columns = {key: _file_numbers(raw, col) for key, col in _COMPRESSOR_COLUMNS.items()}
+    else:
+        columns = {"test_flow": _file_numbers(raw, "inlet_volume_flow"),
+                   "test_head": _file_numbers(raw, "isentropic_head") / STANDARD_GRAVITY,
+                   "test_power": _file_numbers(raw, "shaft_power"),
+                   "speed": _file_numbers(raw, "speed")}
+    columns["speed"] = columns["speed"] * _RPM  # the readings keep speed in rpm
+    for values in columns.values():
+        use &= np.isfinite(values)
+    if not use.any():
+        raise ReadingsError(f"{_READINGS}: no row is usable (status ok, steady, numbers in "
+                            "every column used)")
+    if machine == "compressor":
+        return {key: np.array([values[use].mean()]) for key, values in columns.items()}
+    order = np.argsort(columns["test_flow"][use], kind="stable")
+    out = {key: values[use][order] for key, values in columns.items() if key != "speed"}
+    out["test_speed"] = float(columns["speed"][use].mean())
+    return out
+
+
 __all__ = ["FORMAT_NAME", "FORMAT_VERSION", "CurvesCaseResult", "evaluate_curves_case",
-           "list_curves_demos", "load_curves_demo"]
+           "list_curves_demos", "load_curves_demo", "points_from_readings"]

@@ -40,7 +40,12 @@ import math
 import ipywidgets as widgets
 
 from ..casefiles import read_json
-from ..curves.cases import evaluate_curves_case, list_curves_demos, load_curves_demo
+from ..curves.cases import (
+    evaluate_curves_case,
+    list_curves_demos,
+    load_curves_demo,
+    points_from_readings,
+)
 from ..curves.charts import case_charts, curve_series
 from ..curves.pump_acceptance import GRADES
 from ..curves.report import curves_report
@@ -63,7 +68,6 @@ from .curves_table import (
     format_table,
     measured_columns,
     parse_table,
-    readings_points,
 )
 from .curves_verdicts import CSS, verdict_text, verdicts_html
 
@@ -501,7 +505,7 @@ class CurvesPanel(Panel):
         if content is None:
             return
         kind = self.case["kind"]
-        points = readings_points(read_table(name or "readings.csv", content), kind)
+        points = points_from_readings(read_table(name or "readings.csv", content), kind)
         cols = measured_columns(kind)
         with self.quiet():
             if kind == "pump":

@@ -8,11 +8,8 @@ is "not given" (an optional column such as power); a column filled on some lines
 refused with the line named.  Values are in the display units of the unit switch and are
 converted to SI here (:func:`workbench.ui.common.to_si`).
 
-:func:`readings_points` maps the result file of the readings dashboard
-(:meth:`workbench.fieldtest.session.SessionResult.export_csv`: SI values, shaft speed in
-rpm as the readings keep it) to test points:
-the rows with status ``ok`` (and steady, where the file says) give the flows, heads and
-powers of a pump test, or, averaged, the one test point of a compressor.
+The readings dashboard's result file becomes test points in
+:func:`workbench.curves.cases.points_from_readings`.
 """
 
 from __future__ import annotations
@@ -22,15 +19,13 @@ import re
 
 import numpy as np
 
-from ..errors import InputError, ReadingsError
+from ..errors import InputError
 from .common import format_typed, from_si, round_for_entry, to_si, unit_label
 
 #: Largest table upload accepted [bytes].
 TABLE_LIMIT_BYTES = 200_000
 #: Most points a table may hold.
 MAX_POINTS = 200
-#: Standard acceleration of gravity [m/s^2] (ISO 80000-3).
-STANDARD_GRAVITY = 9.80665
 _NUMBER = re.compile(r"[-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?")
 _RPM = 2.0 * math.pi / 60.0
 
@@ -173,72 +168,5 @@ def parse_table(text: str, columns, system, what: str = "table") -> dict:
     return out
 
 
-def _numbers(raw, column, what):
-    if column not in raw.columns:
-        raise ReadingsError(f"{what}: the file has no column {column!r}; export the result "
-                            "file of the readings dashboard")
-    values = []
-    for cell in raw[column]:
-        cell = str(cell).strip()
-        values.append(float(cell) if _NUMBER.fullmatch(cell) else math.nan)
-    return np.array(values)
-
-
-def _usable(raw):
-    ok = np.array([str(s).strip() == "ok" for s in raw.get("status", [])], dtype=bool)
-    if "steady" in raw.columns:
-        ok &= np.array([str(s).strip().lower() == "true" for s in raw["steady"]], dtype=bool)
-    return ok
-
-
-def readings_points(raw, machine: str) -> dict:
-    """Test points from a readings result file (a table of text cells, SI values).
-
-    Parameters
-    ----------
-    raw : pandas.DataFrame
-        The file read by :func:`workbench.fieldtest.session.read_table`.
-    machine : {"pump", "compressor"}
-        Pump: ``test_flow`` [m^3/s] (inlet volume flow), ``test_head`` [m] (isentropic head
-        over standard gravity: for a liquid the isentropic head is the pressure rise over
-        the density, common practice), ``test_power`` [W] (shaft power) and ``test_speed``
-        [rad/s] (mean speed; the file gives rpm), sorted by flow.  Compressor: the mean of the usable rows of
-        the six readings of an ASME PTC 10 test point.
-
-    Raises
-    ------
-    ReadingsError
-        A column missing, no usable row (status ok and steady).
-    """
-    what = "readings result file"
-    if "status" not in raw.columns:
-        raise ReadingsError(f"{what}: no status column; export the result file of the "
-                            "readings dashboard")
-    use = _usable(raw)
-    if machine == "compressor":
-        names = {"inlet_pressure": "inlet_pressure", "inlet_temperature": "inlet_temperature",
-                 "discharge_pressure": "outlet_pressure",
-                 "discharge_temperature": "reading_outlet_temperature",
-                 "volume_flow": "inlet_volume_flow", "speed": "speed"}
-        columns = {key: _numbers(raw, col, what) for key, col in names.items()}
-        columns["speed"] = columns["speed"] * _RPM  # the readings keep speed in rpm
-    else:
-        columns = {"test_flow": _numbers(raw, "inlet_volume_flow", what),
-                   "test_head": _numbers(raw, "isentropic_head", what) / STANDARD_GRAVITY,
-                   "test_power": _numbers(raw, "shaft_power", what),
-                   "speed": _numbers(raw, "speed", what) * _RPM}
-    for values in columns.values():
-        use &= np.isfinite(values)
-    if not use.any():
-        raise ReadingsError(f"{what}: no row is usable (status ok, steady, numbers in every "
-                            "column used)")
-    if machine == "compressor":
-        return {key: np.array([values[use].mean()]) for key, values in columns.items()}
-    order = np.argsort(columns["test_flow"][use], kind="stable")
-    out = {key: values[use][order] for key, values in columns.items() if key != "speed"}
-    out["test_speed"] = float(columns["speed"][use].mean())
-    return out
-
-
 __all__ = ["Column", "MAX_POINTS", "TABLE_LIMIT_BYTES", "curve_columns", "format_table",
-           "header_line", "parse_table", "readings_points", "measured_columns"]
+           "header_line", "parse_table", "measured_columns"]
