@@ -27,17 +27,18 @@ Every comparison runs in this one process, on the same rows, with the same resul
    (:func:`workbench.monte_carlo_uncertainty`) against the same draws through the
    single-point API (timed on a subset, rate printed).
 5. The dask path on a ``distributed.LocalCluster`` of 2 worker processes against 1 (one
-   thread each), same frame of 1.6 million rows (about three machine-years of one-minute
-   readings); cluster start-up and a warm-up of every worker on other readings (imports,
-   tables) are not timed.  On 2 cores the scheduler and client share the cores with the
-   workers, so the frame must be large enough for the evaluation to dominate their fixed
-   costs: 400,000 rows gave 1.6x in runs here, 1.6 million 1.4x to 1.9x (the ratio moves with
-   whatever else the shared machine runs).
+   thread each, started under :data:`workbench.fieldtest.dask_batch.CLUSTER_SETTINGS`),
+   800,000 rows (a machine-year and a half of one-minute readings) in 32 partitions, best of
+   11 rounds; cluster start-up and a warm-up of every worker on other readings (imports,
+   tables) are not timed.  In the same rounds the same partitions run on 1 and 2 plain worker
+   processes without dask: their ratio is what this shared machine gives at the time, the
+   ceiling for dask's.  One run of one worker under distributed's default settings shows what
+   the settings change.
 
 The machine has 2 cores shared with other work: rates are per second of this process's CPU
 time (wall time varies with whatever else runs), except for dask, whose worker processes are
-timed by the wall clock; compare the ratios, which are measured in the same run.  The direct ``CoolProp`` calls here are the
-baselines only; the workbench's own flashes all happen in its property layer.
+timed by the wall clock; compare the ratios, which are measured in the same run.  The
+direct ``CoolProp`` calls here are the baselines only; the workbench's own flashes all happen in its property layer.
 """
 
 from __future__ import annotations
@@ -46,6 +47,7 @@ import argparse
 import cProfile
 import io
 import math
+import os
 import pstats
 import time
 
@@ -305,49 +307,135 @@ def _partition_summary(part):
                          "eta_sum": [float(part.loc[ok, "isentropic_efficiency"].sum())]})
 
 
-def dask_scaling(rows, machine, fluid, partitions, repeats=2):
-    """Wall time of the same lazy frame on 1 and 2 worker processes (best of ``repeats``).
-
-    The partitions are made on the workers (``dask.dataframe.from_map``, as a frame read from
-    files would be) and each evaluated partition is reduced there to its row counts and sum of
-    efficiencies (as a fleet job writes its results where they are computed), so the timed
-    run is the evaluation, not the shipping of frames through the client.
-    """
+def _dask_frame(rows, partitions, first_seed, machine, fluid):
+    """A lazy frame of ``rows`` invented readings in ``partitions``, evaluated and summarised,
+    optimised so that each partition runs as one task (read, evaluate, summarise fused;
+    ``client.compute`` sends dask-expr's unfused graph otherwise, four tasks a partition)."""
     import dask.dataframe as dd
+
+    seeds = list(range(first_seed, first_seed + partitions))
+    frame = dd.from_map(_partition_rows, seeds, rows=rows // partitions, meta=gas_rows(0))
+    return evaluate(frame, machine, fluid, results=RESULTS).map_partitions(
+        _partition_summary, meta=_partition_summary(pd.DataFrame(
+            {"status": [], "isentropic_efficiency": []}))).optimize()
+
+
+def _start_cluster(workers, machine, fluid):
+    """A LocalCluster of ``workers`` processes (one thread each), every worker warmed up on
+    other readings (imports, tables), as a long-running cluster would be."""
     from distributed import Client, LocalCluster
 
-    rates = {}
-    warm = gas_rows(4_000, seed=99)
-    per = rows // partitions
-    for workers in (1, 2):
-        with LocalCluster(n_workers=workers, threads_per_worker=1, processes=True,
-                          dashboard_address=None) as cluster, Client(cluster) as client:
-            # Warm up every worker on other readings (imports, tables), as a long-running
-            # cluster would be: the timed run measures throughput.
-            client.run(evaluate, warm, machine, fluid, results=RESULTS)
-            elapsed = math.inf
-            for repeat in range(repeats):  # other readings each time (no cached results)
-                seeds = list(range(100 + repeat * partitions, 100 + (repeat + 1) * partitions))
-                frame = dd.from_map(_partition_rows, seeds, rows=per, meta=gas_rows(0))
-                lazy = evaluate(frame, machine, fluid, results=RESULTS).map_partitions(
-                    _partition_summary, meta=_partition_summary(pd.DataFrame(
-                        {"status": [], "isentropic_efficiency": []})))
-                cpu0 = sum(client.run(time.process_time).values())
-                start = time.perf_counter()
-                out = client.compute(lazy).result()
-                wall = time.perf_counter() - start
-                if wall < elapsed:
-                    elapsed = wall
-                    cpu = sum(client.run(time.process_time).values()) - cpu0
-        done = int(out["rows"].sum())
-        rates[workers] = done / elapsed
-        print(f"dask, {workers} worker(s): {done:,} rows ({int(out['ok'].sum()):,} ok, mean "
-              f"efficiency {out['eta_sum'].sum() / out['ok'].sum():.4f}) in {elapsed:.2f} s "
-              f"(wall, best of {repeats}; the workers used {cpu:.2f} s of CPU, "
-              f"{cpu / (elapsed * workers):.0%} of the cores they could have used) = "
-              f"{rates[workers]:,.0f} rows/s")
-    print(f"dask: RATIO 2 workers / 1 worker = {rates[2] / rates[1]:.2f}x (aim >= 1.8x)")
-    return rates[2] / rates[1]
+    cluster = LocalCluster(n_workers=workers, threads_per_worker=1, processes=True,
+                           dashboard_address=None)
+    client = Client(cluster, set_as_default=False)
+    client.run(evaluate, gas_rows(4_000, seed=99), machine, fluid, results=RESULTS)
+    return cluster, client
+
+
+def _alternating(runs, rounds):
+    """Wall times [s] of every run, the runs taking turns round after round."""
+    times = {key: [] for key in runs}
+    for _ in range(rounds):
+        for key, run in runs.items():
+            start = time.perf_counter()
+            run()
+            times[key].append(time.perf_counter() - start)
+    return times
+
+
+def _pool_partition(seed, rows, machine, fluid):
+    """One partition read, evaluated and summarised in a plain worker process (no dask)."""
+    return _partition_summary(evaluate(_partition_rows(seed, rows), machine, fluid,
+                                       results=RESULTS))
+
+
+def _start_pool(workers, machine, fluid):
+    """``workers`` plain processes (``concurrent.futures``, no dask), started and warmed up."""
+    from concurrent.futures import ProcessPoolExecutor
+    from multiprocessing import get_context
+
+    pool = ProcessPoolExecutor(workers, mp_context=get_context("spawn"))
+    list(pool.map(_pool_partition, [99] * 4, [4_000] * 4, [machine] * 4, [fluid] * 4))
+    return pool
+
+
+def dask_scaling(rows, machine, fluid, partitions, rounds=11):
+    """Wall time of the same job on 1 and 2 worker processes, best of ``rounds``.
+
+    Both clusters run side by side, with two pools of plain worker processes (no dask) that
+    evaluate the same kind of partitions, and every round runs each of the four in turn, so a
+    busy spell of the shared machine falls on all alike; each round evaluates other
+    readings (no cached results).  The partitions are made on the workers
+    (``dask.dataframe.from_map``, as a frame read from files would be) and each evaluated
+    partition is reduced there to its row counts and sum of efficiencies (as a fleet job
+    writes its results where they are computed), so the timed run is the evaluation, not the
+    shipping of frames through the client.  The clusters start under
+    :data:`workbench.fieldtest.dask_batch.CLUSTER_SETTINGS`.  The plain processes show what
+    the machine itself gives, and one run of one worker with distributed's default settings
+    what the settings change.
+    """
+    import itertools
+
+    import dask
+    import distributed  # noqa: F401  (loads its defaults before the settings are changed)
+
+    from workbench.fieldtest.dask_batch import CLUSTER_SETTINGS
+
+    seeds = itertools.count(100, partitions)
+    per, summary = rows // partitions, {}
+
+    def on_dask(workers, client):
+        def run():
+            lazy = _dask_frame(rows, partitions, next(seeds), machine, fluid)
+            summary[workers] = client.compute(lazy).result()
+        return run
+
+    def on_pool(pool):
+        def run():
+            first = next(seeds)
+            list(pool.map(_pool_partition, range(first, first + partitions),
+                          [per] * partitions, [machine] * partitions, [fluid] * partitions))
+        return run
+
+    with dask.config.set(CLUSTER_SETTINGS):
+        started = {w: _start_cluster(w, machine, fluid) for w in (1, 2)}
+    pools = {w: _start_pool(w, machine, fluid) for w in (1, 2)}
+    try:
+        runs = {("dask", w): on_dask(w, client) for w, (_, client) in started.items()}
+        runs.update({("plain", w): on_pool(pool) for w, pool in pools.items()})
+        times = _alternating(runs, rounds)
+    finally:
+        for cluster, client in started.values():
+            client.close()
+            cluster.close()
+        for pool in pools.values():
+            pool.shutdown()
+    best = {key: min(t) for key, t in times.items()}
+    for workers, out in summary.items():
+        print(f"dask, {workers} worker(s): {int(out['rows'].sum()):,} rows in {partitions} "
+              f"partitions ({int(out['ok'].sum()):,} ok, mean efficiency "
+              f"{out['eta_sum'].sum() / out['ok'].sum():.4f}) in {best['dask', workers]:.2f} s "
+              f"(wall, best of {rounds} rounds) = {rows / best['dask', workers]:,.0f} rows/s")
+    for (kind, workers), t in times.items():
+        print(f"{kind}, {workers} worker(s), every round [s]: " + ", ".join(f"{x:.2f}" for x in t))
+    ratio = best["dask", 1] / best["dask", 2]
+    plain = best["plain", 1] / best["plain", 2]
+    print(f"dask: RATIO 2 workers / 1 worker = {ratio:.2f}x (aim >= 1.8x)")
+    print(f"the machine without dask (the same partitions on plain worker processes, in the "
+          f"same rounds): 2 / 1 = {plain:.2f}x; one plain process {best['plain', 1]:.2f} s, "
+          f"one dask worker {best['dask', 1]:.2f} s")
+    cluster, client = _start_cluster(1, machine, fluid)  # distributed's default settings
+    try:
+        start = time.perf_counter()
+        client.compute(_dask_frame(rows, partitions, next(seeds), machine, fluid)).result()
+        default = time.perf_counter() - start
+    finally:
+        client.close()
+        cluster.close()
+        os.environ.pop("MALLOC_TRIM_THRESHOLD_", None)  # the nanny leaves it in this process
+    print(f"dask, 1 worker with distributed's default settings: {default:.2f} s "
+          f"(one run) = {best['dask', 1] / default:.2f}x the rate with CLUSTER_SETTINGS")
+    return ratio
 
 
 def profile(label, frame, machine, fluid, top=14):
@@ -375,7 +463,7 @@ def main(argv=None):
             10_000, 1_000, 40_000, 2_000, 300, 100)
     else:
         n_steam, n_gas, n_dask, exact_steam, exact_gas, mc_subset = (
-            100_000, 10_000, 1_600_000, None, None, 300)
+            100_000, 10_000, 800_000, None, None, 300)
     steam = wb.Fluid("Water", backend="IF97")
     gas = wb.Fluid(GAS)
     found, t_mc, dask_ratio = {}, math.nan, None
@@ -400,7 +488,7 @@ def main(argv=None):
         profile("steam turbine", steam_rows(min(n_steam, 20_000)), "turbine", steam)
         profile("gas compressor", gas_rows(min(n_gas, 2_000)), "compressor", gas)
     if run("dask") and not args.no_dask:
-        dask_ratio = dask_scaling(n_dask, "compressor", gas, partitions=8)
+        dask_ratio = dask_scaling(n_dask, "compressor", gas, partitions=32)
     print("summary: " + "; ".join(
         f"{k} batch/skilled {v['ratio']:.2f}x (naive {v['naive']:.0f}x), max |d eta| "
         f"{v['diff']:.1e}, status mismatches {v['mismatched']}" for k, v in found.items())

@@ -114,14 +114,11 @@ def _single_pump(frame, fluid):
     return [np.array(column) for column in zip(*rows)]
 
 
-def test_gas_rows_approaching_the_dew_line_equal_the_single_point_api():
-    # invented compressor readings at 38-42 bar from 217 K (below the dew point, about
-    # 221 K there) to 270 K: rows below the dew line are refused, rows in the table's margin
-    # are exact, rows clear of it come from the table (test data only)
-    fast.forget()
-    gas = wb.Fluid(GAS)
-    rng = np.random.default_rng(23)
-    n = 260
+def _dew_line_frame(n=260, seed=23):
+    """Invented compressor readings at 38-42 bar from 217 K (below the dew point, about
+    221 K there) to 270 K: rows below the dew line are refused, rows in the table's margin
+    are exact, rows clear of it come from the table (test data only)."""
+    rng = np.random.default_rng(seed)
     p1 = rng.uniform(38e5, 42e5, n)
     t1 = np.concatenate([rng.uniform(217.0, 232.0, 60), rng.uniform(232.0, 270.0, n - 60)])
     ratio = rng.uniform(1.2, 1.5, n)
@@ -130,6 +127,14 @@ def test_gas_rows_approaching_the_dew_line_equal_the_single_point_api():
                           "outlet_temperature": t1 * ratio ** 0.3 + rng.uniform(2.0, 8.0, n),
                           "mass_flow": rng.uniform(8.0, 12.0, n)})
     frame.loc[0, "outlet_temperature"] = frame.loc[0, "inlet_temperature"] - 5.0  # no work
+    return frame
+
+
+def test_gas_rows_approaching_the_dew_line_equal_the_single_point_api():
+    fast.forget()
+    gas = wb.Fluid(GAS)
+    frame = _dew_line_frame()
+    p1, t1 = frame["inlet_pressure"].to_numpy(), frame["inlet_temperature"].to_numpy()
     out = wb.evaluate(frame, "compressor", gas, results=RESULTS)
     ok = _compare(out, frame, "compressor", gas, fast.EFFICIENCY_TOLERANCE)
     path = out["path"].to_numpy()
@@ -140,6 +145,20 @@ def test_gas_rows_approaching_the_dew_line_equal_the_single_point_api():
     note = out.attrs["tolerance"]
     assert note["table"]["isentropic_efficiency"] == fast.EFFICIENCY_TOLERANCE
     fast.forget()
+
+
+def test_results_do_not_depend_on_the_block_size(monkeypatch):
+    # the whole-array path evaluates blocks of BLOCK_ROWS rows; blocks of 7 rows (the last
+    # one short) must give the same frame, row for row, as one block
+    from workbench.fieldtest import batch
+
+    gas = wb.Fluid(GAS)
+    frame = _dew_line_frame(n=150, seed=5)
+    whole = wb.evaluate(frame, "compressor", gas, results=RESULTS)
+    monkeypatch.setattr(batch, "BLOCK_ROWS", 7)
+    blocks = wb.evaluate(frame, "compressor", gas, results=RESULTS)
+    pd.testing.assert_frame_equal(blocks, whole)
+    assert set(whole["path"]) == {"table", "exact"} and (whole["status"] != "ok").any()
 
 
 def test_monte_carlo_draws_use_the_table_and_agree_with_propagation():

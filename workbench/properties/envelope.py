@@ -126,8 +126,8 @@ class PhaseEnvelope:
             return math.nan
         highest = float(np.max(edge))
         if dew_temperature is not None:
-            for p in np.geomspace(P.min(), P.max(), probes) if len(grid) > 1 else grid:
-                t = dew_temperature(float(p))
+            for p in _probe_pressures(P.min(), P.max(), probes):
+                t = dew_temperature(p)
                 if t is not None and math.isfinite(t):
                     highest = max(highest, t)
         return highest + margin
@@ -142,6 +142,19 @@ class PhaseEnvelope:
                              f"{len(edge)} and {len(T)}")
         with np.errstate(invalid="ignore"):
             return np.isfinite(T) & ~np.isnan(edge) & (T > edge + margin)
+
+
+#: Step of the probe grid in ln(P): pressures 1 % apart.
+_PROBE_STEP = 0.01
+
+
+def _probe_pressures(p_min: float, p_max: float, probes: int) -> list:
+    """``probes`` pressures [Pa] on the fixed 1 % grid, from the grid point at or below
+    ``p_min`` to the one at or above ``p_max`` (one point when they coincide)."""
+    lo = math.floor(math.log(p_min) / _PROBE_STEP)
+    hi = math.ceil(math.log(p_max) / _PROBE_STEP)
+    steps = sorted({round(k) for k in np.linspace(lo, hi, probes)}) if hi > lo else [lo]
+    return [math.exp(k * _PROBE_STEP) for k in steps]
 
 
 def phase_envelope(fluid) -> PhaseEnvelope:
