@@ -86,6 +86,30 @@ def test_envelope_agrees_with_the_dew_point_flash():
     assert clear.tolist() == [False, True]
 
 
+def test_dew_probes_bracket_the_range_on_a_fixed_grid():
+    # the probes of envelope.limit: pressures 1 % apart on a fixed grid, the first at or below
+    # the least pressure and the last at or above the greatest, so that two batches of one
+    # machine probe the same pressures (the fluid's dew-point cache answers the second)
+    probes = envelope._probe_pressures(18.35e5, 45.1e5, 5)
+    assert len(probes) == 5 and probes[0] <= 18.35e5 and probes[-1] >= 45.1e5
+    assert probes[0] > 18.35e5 / 1.0101 and probes[-1] < 45.1e5 * 1.0101
+    steps = np.log(probes) / 0.01
+    assert np.allclose(steps, np.round(steps))
+    # another batch of the machine, inside the same grid interval at both ends
+    assert envelope._probe_pressures(18.45e5, 45.05e5, 5) == probes
+    calls = []
+
+    def counted(P):
+        calls.append(P)
+        return GAS.dew_temperature(P)
+
+    env = envelope.phase_envelope(GAS)
+    first = env.limit([18.35e5, 45.1e5], counted)
+    assert first >= max(GAS.dew_temperature(p) for p in (18.35e5, 45.1e5)) + envelope.DEW_MARGIN
+    assert first - 0.5 < env.limit([18.45e5, 45.05e5], counted) <= first
+    assert sorted(set(calls)) == probes and len(calls) == 10
+
+
 def test_envelope_edge_of_a_closed_polyline():
     # closed form: linear in (ln P, T) along each segment (the highest crossing counts)
     env = envelope.PhaseEnvelope(np.array([200.0, 250.0, 240.0, 180.0]),
