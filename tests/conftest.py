@@ -7,6 +7,7 @@ tests are skipped, unless ``WORKBENCH_REQUIRE_BROWSER=1`` (as in CI), where they
 
 from __future__ import annotations
 
+import copy
 import os
 import shutil
 import socket
@@ -92,3 +93,23 @@ def served_dashboards():
             process.kill()
             process.wait()
         log.close()
+
+
+@pytest.fixture()
+def edited():
+    """``edited(setup, "a.b", value)``: a copy of a nested dict with the key at the dotted path
+    set to ``value`` (``...`` deletes it); for the refusals of setup and case files."""
+
+    def edit(setup, dotted, value):
+        out = copy.deepcopy(setup)
+        *parents, last = dotted.split(".")
+        where = out
+        for key in parents:
+            where = where[key]
+        if value is ...:
+            del where[last]
+        else:
+            where[last] = value
+        return out
+
+    return edit

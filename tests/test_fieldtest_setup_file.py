@@ -5,7 +5,6 @@ References outside the project: unit factors of NIST SP 811 (1 bar = 1e5 Pa exac
 number, a document is UTF-8 text).
 """
 
-import copy
 import json
 
 import pytest
@@ -96,18 +95,6 @@ def test_saved_text_round_trips_through_a_file(demo_setup, tmp_path):
     assert saved["format"] == setup_file.FORMAT_NAME
 
 
-def _set(setup, dotted, value):
-    """A copy of ``setup`` with the key at ``dotted`` set (``...`` deletes it)."""
-    out = copy.deepcopy(setup)
-    *parents, last = dotted.split(".")
-    where = out
-    for key in parents:
-        where = where[key]
-    if value is ...:
-        del where[last]
-    else:
-        where[last] = value
-    return out
 
 
 @pytest.mark.parametrize("key, value", [
@@ -133,9 +120,9 @@ def _set(setup, dotted, value):
     ("design_point.isentropic_efficiency", 1.5), ("design_point.shaft_power_W", 0),
     ("design_point.speed_rpm", -3000.0), ("design_point.head", 1.0),
 ])
-def test_invalid_setup_is_refused_naming_the_key(demo_setup, key, value):
+def test_invalid_setup_is_refused_naming_the_key(demo_setup, key, value, edited):
     with pytest.raises(wb.CaseFileError) as info:
-        setup_file.validate_setup(_set(demo_setup, key, value), COLUMNS)
+        setup_file.validate_setup(edited(demo_setup, key, value), COLUMNS)
     top = key.split(".")[0]
     assert top in str(info.value) or key in str(info.value), str(info.value)
     assert len(str(info.value)) < 400  # a huge value is not copied into the message

@@ -7,7 +7,6 @@ run here without the panel.
 """
 
 import base64
-import copy
 import datetime
 import json
 
@@ -171,18 +170,6 @@ def test_round_trip_save_change_everything_load(demo, tmp_path):
         before["tolerances"]["inlet_pressure"] * 1e5 / 6894.757, rel=1e-5)
 
 
-def _set(setup, dotted, value):
-    """A copy of ``setup`` with the key at ``dotted`` set (``...`` deletes it)."""
-    out = copy.deepcopy(setup)
-    *parents, last = dotted.split(".")
-    where = out
-    for key in parents:
-        where = where[key]
-    if value is ...:
-        del where[last]
-    else:
-        where[last] = value
-    return out
 
 
 # every refusal of the format is checked without widgets in tests/test_fieldtest_setup_file.py;
@@ -196,9 +183,10 @@ def _set(setup, dotted, value):
      "'columns.inlet_pressure.column'"),
     ("design_point.shaft_power_W", 0, "'design_point.shaft_power_W'"),
 ])
-def test_invalid_setup_names_the_key_and_keeps_the_panel(demo, demo_setup, key, value, words):
+def test_invalid_setup_names_the_key_and_keeps_the_panel(demo, demo_setup, key, value, words,
+                                                          edited):
     before, results, table = demo.to_setup(), demo.results, demo.table.value
-    assert demo.load_setup(_set(demo_setup, key, value)) is False  # never raises
+    assert demo.load_setup(edited(demo_setup, key, value)) is False  # never raises
     message = demo.message.text  # plain text shown (MessageArea)
     assert "setup not loaded" in message
     assert words in message, message
