@@ -25,7 +25,7 @@ import pytest
 pytestmark = pytest.mark.browser
 
 #: Bounded waits [ms]: a first render includes a kernel start when no warm one is left.
-FIRST_RESULT_TIMEOUT = 90_000
+FIRST_RESULT_TIMEOUT = 150_000
 UPDATE_TIMEOUT = 30_000
 
 #: Screenshots kept in the repository (written only with WORKBENCH_UPDATE_SCREENSHOTS=1).

@@ -19,7 +19,7 @@ import pytest
 
 pytestmark = pytest.mark.browser
 
-FIRST_RESULT_TIMEOUT = 90_000
+FIRST_RESULT_TIMEOUT = 150_000
 UPDATE_TIMEOUT = 30_000
 DOCS_SCREENSHOTS = pathlib.Path(__file__).resolve().parents[1] / "docs" / "screenshots"
 
