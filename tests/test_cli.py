@@ -8,6 +8,7 @@ requests to 127.0.0.1 only.
 
 from __future__ import annotations
 
+import os
 import subprocess
 import sys
 
@@ -57,6 +58,38 @@ def test_voila_argv_hides_code_and_preheats_kernels(tmp_path):
     assert "--Voila.auto_token=True" in cli.voila_argv(tmp_path, token=True)
     # default host of the function itself is the loopback one
     assert "--Voila.ip=127.0.0.1" in cli.voila_argv(tmp_path)
+
+
+def test_the_page_template_is_found_and_strips_every_outside_link(monkeypatch, capsys,
+                                                                  tmp_path):
+    """The served pages use the package's template (Voila's "lab" page without its CDN
+    stylesheets): serve points JUPYTER_PATH at it, Voila's template lookup finds it above
+    "lab", and every link our template removes is spelled in the installed "lab" page as we
+    spell it (a Voila update that changes them fails here; the browser tests then also see
+    the page ask another machine)."""
+    import re
+
+    import jinja2
+    from jupyter_core.paths import jupyter_path
+    from voila.paths import collect_template_paths
+
+    rc, _out = _serve(monkeypatch, capsys, ["serve", "--no-browser"], tmp_path)
+    assert rc == 0
+    assert f"--template={cli.TEMPLATE}" in _FakeProcess.argv
+    first = _FakeProcess.env["JUPYTER_PATH"].split(os.pathsep)[0]
+    assert first == str(cli.TEMPLATE_ROOT)
+
+    paths = collect_template_paths(["voila", "nbconvert"], cli.TEMPLATE, prune=True,
+                                   root_dirs=[first, *jupyter_path()])
+    assert paths[0] == str(cli.TEMPLATE_ROOT / "voila" / "templates" / cli.TEMPLATE)
+    assert any(p.endswith(os.path.join("voila", "templates", "lab")) for p in paths)
+    loader = jinja2.FileSystemLoader(paths)
+    ours = loader.get_source(jinja2.Environment(), "index.html.j2")[0]
+    parent_name = re.search(r"extends '([^']+)'", ours).group(1)
+    parent = loader.get_source(jinja2.Environment(), parent_name)[0]
+    removed = re.findall(r"replace\('(<link[^']+)'", ours)
+    outside = re.findall(r'<link[^>]+href="https?://[^>]+>', parent)
+    assert removed and sorted(removed) == sorted(outside)
 
 
 def test_voila_accepts_the_options_it_is_given(tmp_path):
@@ -202,6 +235,8 @@ def test_a_wheel_carries_the_dashboards_and_the_data(tmp_path):
                    for n in names), dashboard
     assert any(n.startswith("workbench/cases/") and n.endswith(".json") for n in names)
     assert "workbench/data/booster_compressor_readings.csv" in names
+    for name in ("conf.json", "index.html.j2"):
+        assert f"workbench/served/voila/templates/{cli.TEMPLATE}/{name}" in names
 
 
 # ---------------------------------------------------------------------- tokens and hosts

@@ -2,7 +2,10 @@
 
 ``workbench serve [--port N] [--host H] [--token T] [--allow-host NAME] [--no-browser]``
 starts Voila over the notebooks folder with the code hidden and kernels started ahead of the
-first visitor, and prints the address of each dashboard.  ``workbench demo`` prints one
+first visitor, and prints the address of each dashboard.  The pages use the package's own
+Voila template (``served/voila/templates/workbench``): Voila's "lab" page without its links
+to a public CDN, so the dashboards load from this computer alone, also on a plant network
+without internet access.  ``workbench demo`` prints one
 compressor and one turbine calculation made with the public API.  ``python -m workbench ...``
 does the same.
 
@@ -64,6 +67,11 @@ DASHBOARDS = ("compressor.ipynb", "turbine.ipynb")
 
 #: Kernels kept started per dashboard, so a visitor gets a running panel at once.
 POOL_SIZE = 1
+
+#: Voila page template of the dashboards (Voila's "lab" page that loads nothing from
+#: outside this computer), found under :data:`TEMPLATE_ROOT` through ``JUPYTER_PATH``.
+TEMPLATE = "workbench"
+TEMPLATE_ROOT = Path(__file__).resolve().parent / "served"
 
 LOCAL_HOSTS = ("127.0.0.1", "localhost", "::1")
 #: Hosts that mean "every interface of this machine".
@@ -305,6 +313,7 @@ def voila_argv(folder: Path, host: str = DEFAULT_HOST, port: int = DEFAULT_PORT,
         "--no-browser",
         f"--port={int(port)}",
         f"--Voila.ip={host}",
+        f"--template={TEMPLATE}",
         "--strip_sources=True",
         "--show_tracebacks=False",
         "--preheat_kernel=True",
@@ -396,6 +405,8 @@ def serve(host: str, port: int, open_browser: bool, token: str | None = None,
     # traitlets warns that a dict option given as JSON is deprecated; it is still the only
     # form that keeps the websocket limit an integer: keep the server's console quiet
     env.setdefault("PYTHONWARNINGS", "ignore::DeprecationWarning")
+    env["JUPYTER_PATH"] = os.pathsep.join(
+        [str(TEMPLATE_ROOT)] + [p for p in env.get("JUPYTER_PATH", "").split(os.pathsep) if p])
     names = dashboard_names(folder)
     urls = dashboard_urls(host, port, names, token)
     print("Serving the workbench dashboards (Ctrl-C stops):")
