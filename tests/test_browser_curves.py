@@ -20,7 +20,7 @@ import pytest
 pytestmark = pytest.mark.browser
 
 FIRST_RESULT_TIMEOUT = 150_000
-UPDATE_TIMEOUT = 30_000
+UPDATE_TIMEOUT = 60_000
 DOCS_SCREENSHOTS = pathlib.Path(__file__).resolve().parents[1] / "docs" / "screenshots"
 
 #: Points drawn in the first chart's trace of the test points at test speed.
@@ -30,15 +30,6 @@ _TEST_TRACE_Y = """() => {
   const t = fig.data.find(d => d.name === 'test points at test speed');
   return t ? Array.from(t.y) : null;
 }"""
-
-
-@pytest.fixture()
-def page(browser):
-    context = browser.new_context(viewport={"width": 1400, "height": 1000},
-                                  accept_downloads=True)
-    page = context.new_page()
-    yield page
-    context.close()
 
 
 def _full_height_screenshot(page, path):
@@ -52,13 +43,13 @@ def _full_height_screenshot(page, path):
 def test_curves_dashboard_test_point_moves_chart_and_verdict_and_report_opens(
         served_dashboards, page, tmp_path):
     page.goto(served_dashboards + "/voila/render/curves.ipynb", timeout=FIRST_RESULT_TIMEOUT)
-    page.wait_for_function(
+    page.wb_wait(
         "() => { const e = document.querySelector('.wb-result-verdict');"
         " return e && /grade 2B: pass/.test(e.innerText); }", timeout=FIRST_RESULT_TIMEOUT)
     # no code is shown (strip_sources)
     assert page.locator(".jp-InputArea-editor, .CodeMirror, .cm-editor").count() == 0
-    page.wait_for_function(f"() => ({_TEST_TRACE_Y})() !== null",
-                           timeout=FIRST_RESULT_TIMEOUT)
+    page.wb_wait(f"() => ({_TEST_TRACE_Y})() !== null", timeout=FIRST_RESULT_TIMEOUT,
+                 what="the test points in the first chart")
     before = page.evaluate(_TEST_TRACE_Y)
     assert page.locator(".wb-result-figure .main-svg .scatterlayer .trace").count() >= 8
     shot = tmp_path / "curves.png"
@@ -76,10 +67,10 @@ def test_curves_dashboard_test_point_moves_chart_and_verdict_and_report_opens(
     lowered = "\n".join([lines[0]] + [f"{q}, {h * 0.88:.3f}, {p}" for q, h, p in rows])
     box.fill(lowered)
     box.press("Tab")  # the table is read when the field loses focus
-    page.wait_for_function(
+    page.wb_wait(
         "() => { const e = document.querySelector('.wb-result-verdict');"
         " return e && /grade 2B: fail/.test(e.innerText); }", timeout=UPDATE_TIMEOUT)
-    page.wait_for_function(f"() => {{ const y = ({_TEST_TRACE_Y})();"
+    page.wb_wait(f"() => {{ const y = ({_TEST_TRACE_Y})();"
                            f" return y && Math.abs(y[0] - {before[0] * 0.88}) < 0.01; }}",
                            timeout=UPDATE_TIMEOUT)
     after = page.evaluate(_TEST_TRACE_Y)
