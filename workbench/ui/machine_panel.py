@@ -219,7 +219,8 @@ class MachinePanel(Panel):
                                                      description="load case file"),
                                   "case-upload")
         self.upload.observe(guard(self._uploaded), names="value")
-        self.save_button = input_class(widgets.Button(description="prepare case download"),
+        self.save_button = input_class(widgets.Button(
+            description="prepare case download", layout=widgets.Layout(width="200px")),
                                        "case-save")
         self.save_button.on_click(guard(lambda _b: self._refresh_case_link()))
         self.case_link = result_class(widgets.HTML(""), "case-download")
