@@ -42,3 +42,24 @@ def test_us_customary_display():
     assert us.from_si(1e5, "pressure") == pytest.approx(14.50377, rel=1e-6)  # SP 811
     assert us.from_si(373.15, "temperature") == pytest.approx(212.0)
     assert us.to_si(212.0, "temperature") == pytest.approx(373.15)
+
+
+def test_one_rpm_in_radians_per_second():
+    from workbench.units import RPM
+
+    # SP 811 appendix B: 1 r/min = 2 pi / 60 rad/s = 0.104 719 755 rad/s; pint agrees
+    assert RPM == pytest.approx(0.10471975512, rel=1e-11)
+    assert wb.Q_(1, "rpm").to("rad/s").magnitude == pytest.approx(RPM, rel=1e-12)
+
+
+@pytest.mark.parametrize("text,ok", [
+    ("12", True), ("-0.5", True), ("+.5", True), ("3.2e5", True), ("1E-3", True),
+    ("7.", True), ("", False), ("1,5", False), ("1e", False), ("abc", False),
+    ("nan", False), ("inf", False), ("1.2.3", False), ("--1", False), (" 1", False),
+])
+def test_number_text_accepts_plain_decimal_numbers_only(text, ok):
+    from workbench.units import NUMBER_TEXT
+
+    assert bool(NUMBER_TEXT.fullmatch(text)) is ok
+    if ok:
+        float(text)  # everything accepted converts

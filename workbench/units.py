@@ -61,6 +61,14 @@ SI_UNITS = {
 }
 
 
+#: One revolution a minute in rad/s (NIST SP 811): speeds are typed in rpm, kept in rad/s.
+RPM = 2.0 * math.pi / 60.0
+
+#: A plain decimal number as typed in a table cell or written in a text file ("12", "-.5",
+#: "3.2e5"); anything else in such a cell is refused or read as missing.
+NUMBER_TEXT = re.compile(r"[-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?")
+
+
 #: Largest magnitude of any SI input [SI unit].  Anything larger is no physical entry of this
 #: trade and would overflow in use (squares of velocities, products with flows).
 MAX_MAGNITUDE = 1e12

@@ -25,7 +25,6 @@ from __future__ import annotations
 
 import json
 import math
-import re
 from dataclasses import dataclass, field
 from importlib import resources
 
@@ -34,7 +33,7 @@ import numpy as np
 from ..errors import CaseFileError, InputError, ReadingsError, WorkbenchError
 from ..machines.balance import STANDARD_GRAVITY
 from ..properties import Fluid
-from ..units import choice
+from ..units import NUMBER_TEXT, RPM, choice
 from .characteristic import PerformanceCurve
 from .pump_acceptance import PumpAcceptanceResult, pump_acceptance
 from .similarity import CompressorSimilarityResult, compressor_similarity
@@ -217,9 +216,6 @@ def load_curves_demo(name: str) -> dict:
 
 
 # ---- test points from the readings dashboard's result file -----------------------------------
-_NUMBER = re.compile(r"[-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?")
-#: One revolution a minute in rad/s (NIST SP 811).
-_RPM = 2.0 * math.pi / 60.0
 _READINGS = "readings result file"
 #: Compressor test-point keys and the result-file columns they come from.
 _COMPRESSOR_COLUMNS = {"inlet_pressure": "inlet_pressure",
@@ -233,7 +229,7 @@ def _file_numbers(raw, column):
     if column not in raw.columns:
         raise ReadingsError(f"{_READINGS}: the file has no column {column!r}; export the "
                             "result file of the readings dashboard")
-    return np.array([float(cell) if _NUMBER.fullmatch(cell) else math.nan
+    return np.array([float(cell) if NUMBER_TEXT.fullmatch(cell) else math.nan
                      for cell in (str(c).strip() for c in raw[column])])
 
 
@@ -300,7 +296,7 @@ def points_from_readings(raw, machine: str) -> dict:
                    "test_head": _file_numbers(raw, "isentropic_head") / STANDARD_GRAVITY,
                    "test_power": _file_numbers(raw, "shaft_power"),
                    "speed": _file_numbers(raw, "speed")}
-    columns["speed"] = columns["speed"] * _RPM  # the readings keep speed in rpm
+    columns["speed"] = columns["speed"] * RPM  # the readings keep speed in rpm
     for values in columns.values():
         use &= np.isfinite(values)
     if not use.any():

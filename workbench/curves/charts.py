@@ -14,9 +14,9 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from ..units import RPM
 from .characteristic import HEAD_WORDS
 
-_TWO_PI = 2 * math.pi
 #: Display unit and conversion from SI of each kind of quantity.
 DISPLAY = {
     "volume_flow": ("m³/h", lambda v: v * 3600.0),
@@ -26,7 +26,7 @@ DISPLAY = {
     "specific_enthalpy": ("kJ/kg", lambda v: v / 1e3),
     "pressure": ("bar", lambda v: v / 1e5),
     "temperature": ("°C", lambda v: v - 273.15),
-    "rotational_speed": ("rpm", lambda v: v * 60.0 / _TWO_PI),
+    "rotational_speed": ("rpm", lambda v: v / RPM),
     "length": ("m", lambda v: v),
     "velocity": ("m/s", lambda v: v),
     "mass_flow": ("kg/s", lambda v: v),

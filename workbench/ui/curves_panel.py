@@ -35,7 +35,6 @@ import copy
 import dataclasses
 import html
 import json
-import math
 
 import ipywidgets as widgets
 
@@ -51,6 +50,7 @@ from ..curves.pump_acceptance import GRADES
 from ..curves.report import curves_report
 from ..errors import CaseFileError, InputError
 from ..fieldtest.session import read_table
+from ..units import RPM
 from .charts import figure_view, refresh_view
 from .common import (
     NumberEntry,
@@ -71,7 +71,6 @@ from .curves_table import (
 )
 from .curves_verdicts import CSS, verdict_text, verdicts_html
 
-_RPM = 2.0 * math.pi / 60.0
 #: Demo loaded for each machine kind.
 KIND_DEMOS = {"pump": "pump-loop-demo", "compressor": "compressor-co2-shop-test-demo"}
 RULES = {"pump": [(f"ISO 9906 grade {g}", g) for g in GRADES],
@@ -282,7 +281,7 @@ class CurvesPanel(Panel):
             curve.pop(key, None)
             if table.get(key) is not None:
                 curve[key] = table[key].tolist()
-        curve.update(speed=self.curve_speed.si * _RPM, min_flow=self.min_flow.si,
+        curve.update(speed=self.curve_speed.si * RPM, min_flow=self.min_flow.si,
                      max_flow=self.max_flow.si)
         data["curve"] = curve
         if kind == "pump":
@@ -302,7 +301,7 @@ class CurvesPanel(Panel):
         acc = dict(data.get("acceptance") or {})
         for key in ("test_flow", "test_head", "test_power"):
             acc[key] = None if table[key] is None else table[key].tolist()
-        acc.update(test_speed=self.test_speed.si * _RPM, rated_speed=data["curve"]["speed"],
+        acc.update(test_speed=self.test_speed.si * RPM, rated_speed=data["curve"]["speed"],
                    guarantee_flow=self.g_flow.si, guarantee_head=self.g_head.si,
                    guarantee_efficiency=self.g_eff.si or None, grade=self.rule.value)
         acc.setdefault("degree", 2)
@@ -338,7 +337,7 @@ class CurvesPanel(Panel):
                 e.unit.value = "rpm"
             self.min_flow.label.value = ("Minimum-flow limit" if kind == "pump"
                                          else "Surge limit")
-            self.curve_speed.set_si(curve["speed"] / _RPM)
+            self.curve_speed.set_si(curve["speed"] / RPM)
             self.min_flow.set_si(curve.get("min_flow") or curve["flow"][0])
             self.max_flow.set_si(curve.get("max_flow") or curve["flow"][-1])
             if kind == "pump":
@@ -350,7 +349,7 @@ class CurvesPanel(Panel):
         acc = data.get("acceptance") or {}
         self.rule.value = acc.get("grade", "2B")
         self.test_text.value = format_table(measured_columns("pump"), acc, system)
-        self.test_speed.set_si(acc.get("test_speed", data["curve"]["speed"]) / _RPM)
+        self.test_speed.set_si(acc.get("test_speed", data["curve"]["speed"]) / RPM)
         self.g_flow.set_si(acc.get("guarantee_flow", 0.0))
         self.g_head.set_si(acc.get("guarantee_head", 0.0))
         self.g_eff.set_si(acc.get("guarantee_efficiency") or 0.0)
@@ -509,7 +508,7 @@ class CurvesPanel(Panel):
         cols = measured_columns(kind)
         with self.quiet():
             if kind == "pump":
-                self.test_speed.set_si(points.pop("test_speed") / _RPM)
+                self.test_speed.set_si(points.pop("test_speed") / RPM)
             self.test_text.value = format_table(cols, points, self.system)
         if self.recalculate():
             self.message.show(f"test points read from {name}",

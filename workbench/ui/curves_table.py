@@ -14,20 +14,18 @@ The readings dashboard's result file becomes test points in
 
 from __future__ import annotations
 
-import math
 import re
 
 import numpy as np
 
 from ..errors import InputError
+from ..units import NUMBER_TEXT, RPM
 from .common import format_typed, from_si, round_for_entry, to_si, unit_label
 
 #: Largest table upload accepted [bytes].
 TABLE_LIMIT_BYTES = 200_000
 #: Most points a table may hold.
 MAX_POINTS = 200
-_NUMBER = re.compile(r"[-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?")
-_RPM = 2.0 * math.pi / 60.0
 
 
 class Column:
@@ -53,12 +51,12 @@ class Column:
 
     def to_si(self, system, values):
         if self.kind == "rpm":
-            return values * _RPM
+            return values * RPM
         return np.asarray(to_si(system, values, self.kind), dtype=float)
 
     def from_si(self, system, values):
         if self.kind == "rpm":
-            return np.asarray(values, dtype=float) / _RPM
+            return np.asarray(values, dtype=float) / RPM
         return np.asarray(from_si(system, np.asarray(values, dtype=float), self.kind),
                           dtype=float)
 
@@ -145,7 +143,7 @@ def parse_table(text: str, columns, system, what: str = "table") -> dict:
             raise InputError(f"{what}, line {number}: {len(cells)} cells, at most "
                              f"{len(columns)} ({header_line(columns, system)})")
         for cell in cells:
-            if cell and not _NUMBER.fullmatch(cell):
+            if cell and not NUMBER_TEXT.fullmatch(cell):
                 raise InputError(f"{what}, line {number}: {cell[:30]!r} is not a number")
         rows.append((number, cells + [""] * (len(columns) - len(cells))))
     if len(rows) > MAX_POINTS:
