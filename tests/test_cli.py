@@ -49,6 +49,7 @@ def test_voila_argv_hides_code_and_preheats_kernels(tmp_path):
     for option in ("--no-browser", "--port=9001", "--Voila.ip=127.0.0.1",
                    "--strip_sources=True", "--show_tracebacks=False",
                    "--preheat_kernel=True", "--pool_size=2",
+                   f"--VoilaExecutor.iopub_timeout={cli.IOPUB_TIMEOUT}",
                    "--Voila.identity_provider_class=workbench.cli.HostCheckingIdentityProvider",
                    "--HostCheckingIdentityProvider.bound_host=127.0.0.1",
                    "--HostCheckingIdentityProvider.allowed_hosts=localhost"):

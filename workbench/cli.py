@@ -68,6 +68,11 @@ DASHBOARDS = ("compressor.ipynb", "turbine.ipynb")
 #: Kernels kept started per dashboard, so a visitor gets a running panel at once.
 POOL_SIZE = 1
 
+#: Longest wait [s] for a cell's output messages after the kernel's reply, when Voila runs
+#: a dashboard notebook (nbclient's ``iopub_timeout``; its default of 4 s loses panels on a
+#: loaded machine).
+IOPUB_TIMEOUT = 120
+
 #: Voila page template of the dashboards (Voila's "lab" page that loads nothing from
 #: outside this computer), found under :data:`TEMPLATE_ROOT` through ``JUPYTER_PATH``.
 TEMPLATE = "workbench"
@@ -318,6 +323,10 @@ def voila_argv(folder: Path, host: str = DEFAULT_HOST, port: int = DEFAULT_PORT,
         "--show_tracebacks=False",
         "--preheat_kernel=True",
         f"--pool_size={int(pool_size)}",
+        # a panel's widgets reach the page as output messages that may trail the kernel's
+        # reply by seconds while several kernels start at once on a small machine; the
+        # notebook runner's default wait of 4 s then drops them and the page shows no panel
+        f"--VoilaExecutor.iopub_timeout={IOPUB_TIMEOUT}",
         "--Voila.port_retries=0",
         # uploads of readings files up to the panel's 20 MiB limit travel as one websocket
         # message (base64): raise tornado's 10 MiB default so the panel can say "too large"
