@@ -359,6 +359,12 @@ def _start_pool(workers, machine, fluid):
     return pool
 
 
+def _forget_allocator_variables():
+    """Remove the malloc variables a nanny leaves in this process's environment."""
+    for name in ("MALLOC_TRIM_THRESHOLD_", "MALLOC_MMAP_THRESHOLD_"):
+        os.environ.pop(name, None)
+
+
 def dask_scaling(rows, machine, fluid, partitions, rounds=11):
     """Wall time of the same job on 1 and 2 worker processes, best of ``rounds``.
 
@@ -397,9 +403,11 @@ def dask_scaling(rows, machine, fluid, partitions, rounds=11):
                           [per] * partitions, [machine] * partitions, [fluid] * partitions))
         return run
 
+    # the plain processes first: the nannies leave their allocator variables in this
+    # process's environment, and a plain process must not inherit them
+    pools = {w: _start_pool(w, machine, fluid) for w in (1, 2)}
     with dask.config.set(CLUSTER_SETTINGS):
         started = {w: _start_cluster(w, machine, fluid) for w in (1, 2)}
-    pools = {w: _start_pool(w, machine, fluid) for w in (1, 2)}
     try:
         runs = {("dask", w): on_dask(w, client) for w, (_, client) in started.items()}
         runs.update({("plain", w): on_pool(pool) for w, pool in pools.items()})
@@ -424,6 +432,7 @@ def dask_scaling(rows, machine, fluid, partitions, rounds=11):
     print(f"the machine without dask (the same partitions on plain worker processes, in the "
           f"same rounds): 2 / 1 = {plain:.2f}x; one plain process {best['plain', 1]:.2f} s, "
           f"one dask worker {best['dask', 1]:.2f} s")
+    _forget_allocator_variables()
     cluster, client = _start_cluster(1, machine, fluid)  # distributed's default settings
     try:
         start = time.perf_counter()
@@ -432,7 +441,7 @@ def dask_scaling(rows, machine, fluid, partitions, rounds=11):
     finally:
         client.close()
         cluster.close()
-        os.environ.pop("MALLOC_TRIM_THRESHOLD_", None)  # the nanny leaves it in this process
+        _forget_allocator_variables()
     print(f"dask, 1 worker with distributed's default settings: {default:.2f} s "
           f"(one run) = {best['dask', 1] / default:.2f}x the rate with CLUSTER_SETTINGS")
     return ratio

@@ -49,17 +49,21 @@ def test_dask_local_cluster_threads_equals_pandas():
 
 def test_cluster_settings_reach_the_worker_processes(monkeypatch):
     # the keys of CLUSTER_SETTINGS are distributed's own (a misspelt key would be ignored
-    # without a word): a worker process started under them has no malloc trim threshold and
-    # no profiler, and its health tick runs every second (distributed's documented config)
+    # without a word): a worker process started under them has glibc's heap thresholds set
+    # (16 MiB mmap, 128 MiB trim), no profiler, and its health tick runs every second
+    # (distributed's documented config)
     distributed = pytest.importorskip("distributed")
     from workbench.fieldtest.dask_batch import CLUSTER_SETTINGS
 
-    monkeypatch.delenv("MALLOC_TRIM_THRESHOLD_", raising=False)
+    for name in ("MALLOC_TRIM_THRESHOLD_", "MALLOC_MMAP_THRESHOLD_"):
+        # the nanny leaves them in this process: restore this process's environment after
+        monkeypatch.setenv(name, "")
+        monkeypatch.delenv(name)
 
     def seen(dask_worker):
         import os
 
-        return (os.environ.get("MALLOC_TRIM_THRESHOLD_"),
+        return (os.environ.get("MALLOC_TRIM_THRESHOLD_"), os.environ.get("MALLOC_MMAP_THRESHOLD_"),
                 "profile" in dask_worker.periodic_callbacks,
                 dask_worker.periodic_callbacks["tick"].callback_time)
 
@@ -67,8 +71,9 @@ def test_cluster_settings_reach_the_worker_processes(monkeypatch):
         with distributed.LocalCluster(n_workers=1, threads_per_worker=1, processes=True,
                                       dashboard_address=None) as cluster, \
                 distributed.Client(cluster) as client:
-            trim, profiling, tick = next(iter(client.run(seen).values()))
+            trim, mmap, profiling, tick = next(iter(client.run(seen).values()))
             frame = readings()
             lazy = evaluate(dd.from_pandas(frame, npartitions=2), "compressor", "Air")
             check_same(frame, client.compute(lazy.optimize()).result())
-    assert trim is None and not profiling and tick == 1000
+    assert (trim, mmap) == ("134217728", "16777216")
+    assert not profiling and tick == 1000
