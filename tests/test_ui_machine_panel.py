@@ -113,6 +113,9 @@ def test_turbine_demo_wet_exhaust_against_iapws():
     assert number(p.shown("outlet-quality")) == pytest.approx(x2, abs=2e-4)
     assert number(p.shown("shaft-power")) == pytest.approx(8000.0, rel=1e-4)
     assert "wet" in p.message.text
+    # the case tab names the demo opened, not the first one in the list
+    assert p.demo_choice.value == "turbine-demo"
+    assert MachinePanel(case=p.to_case()).demo_choice.value == p.demo_choice.options[0]
 
 
 def test_bad_entry_keeps_result_and_marks_stale(panel):
