@@ -89,7 +89,6 @@ def _wait_for_warm_kernels(process, deadline):
 
 #: Server of each base URL handed out by ``served_dashboards``: its process and log file.
 _SERVERS: dict = {}
-LOCAL_HOSTS = ("127.0.0.1", "localhost", "[::1]")
 
 
 def _server_report(base: str) -> str:
@@ -129,8 +128,10 @@ def page(browser):
     page = context.new_page()
     events, offsite = [], []
 
+    from workbench.cli import LOCAL_HOSTS
+
     def on_request(request):
-        host = urllib.parse.urlsplit(request.url).netloc.rsplit(":", 1)[0]
+        host = urllib.parse.urlsplit(request.url).hostname
         if request.url.startswith(("http:", "https:", "ws:", "wss:")) and host not in LOCAL_HOSTS:
             offsite.append(request.url)
 

@@ -9,9 +9,10 @@ the synchronous one, threads, a ``distributed.LocalCluster`` or a remote cluster
 
 On a ``distributed`` cluster, start the cluster under :data:`CLUSTER_SETTINGS`
 (``dask.config.set(CLUSTER_SETTINGS)`` before the cluster is made): each worker then
-evaluates batches 2.5 to 3 times faster than under distributed's defaults, as fast as a
-plain process, and two workers on two cores come close to twice one.  Compute ``lazy.optimize()`` to run each partition's
-reading, evaluation and whatever follows as one task.
+evaluates batches 2.5 to 3 times faster than under distributed's defaults, about as fast as
+a plain process, and two workers on two cores come close to twice one.  Compute
+``lazy.optimize()`` to run each partition's reading, evaluation and whatever follows as one
+task.
 
 This module imports neither dask nor the batch module: the frame brings its own
 ``map_partitions`` and the batch passes its function, so importing the workbench never

@@ -137,9 +137,10 @@ class MachinePanel(Panel):
 
     def __init__(self, case="compressor-demo"):
         loaded = open_case(case)
-        demos = list_demo_cases()
+        self._demos = list_demo_cases()
         #: The demo case shown in the case tab: the one opened, else the first.
-        self._demo_shown = case if isinstance(case, str) and case in demos else demos[0]
+        self._demo_shown = (case if isinstance(case, str) and case in self._demos
+                            else self._demos[0])
         self._ensure_plumbing()
         self._inputs = loaded["inputs"]
         self.title = loaded["title"]
@@ -213,7 +214,7 @@ class MachinePanel(Panel):
     def _build_case_tools(self):
         guard = self.guard
         self.demo_choice = input_class(widgets.Dropdown(
-            options=list_demo_cases(), value=self._demo_shown, description="demo case",
+            options=self._demos, value=self._demo_shown, description="demo case",
             layout=widgets.Layout(width="330px")), "demo-case")
         self.demo_button = input_class(widgets.Button(description="open demo case"),
                                        "open-demo")
